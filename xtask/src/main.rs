@@ -1,0 +1,4 @@
+fn main() {
+    eprintln!("xtask: being written");
+    std::process::exit(2);
+}
