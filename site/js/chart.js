@@ -1,0 +1,467 @@
+// railnote chart: the one chart module every calculator shares.
+//
+// Why hand-built SVG and not a library. A chart here ends up in review records: people print the
+// page or save it as PDF and file it with the design. Vector SVG prints crisply at any scale,
+// needs no canvas, is built with createElementNS (so it works under a strict CSP and Trusted
+// Types, and data never passes through innerHTML), and the whole module is a few KB. A canvas
+// library such as uPlot costs about 22 KB gzip and prints as a bitmap; Observable Plot with d3 is
+// about 160 KB gzip. The charts railnote needs (lines, dashed lines, shaded regions, markers,
+// linear and log axes) are few and simple, so writing them is smaller than depending on one.
+//
+// Layout of this file. The maths (scales, ticks, clipping, path data) are pure exported functions
+// with no DOM, tested by tests/node/chart.test.mjs under node:test. renderChart() is the only
+// part that touches the DOM.
+//
+// Accessibility. The <svg> has role="img", an aria-label, and <title>/<desc>. Every series has a
+// legend entry in words drawn with the same dash pattern as the series, so no series relies on
+// colour alone. Colours come from CSS custom properties (--rn-chart-1 … --rn-chart-5, --rn-chart-ink,
+// --rn-chart-grid, --rn-chart-bg) so the page's light and dark schemes and the print stylesheet
+// decide them.
+
+const SVG_NS = 'http://www.w3.org/2000/svg';
+
+/** Dash patterns by name, in px. Distinct enough to tell apart in greyscale print. */
+export const DASHES = {
+  solid: '',
+  dashed: '7 4',
+  dotted: '1.5 3.5',
+  dashdot: '9 3 2 3',
+  long: '14 5',
+};
+
+/** Replace a degenerate or reversed domain with a usable one. Always returns finite [lo, hi], lo < hi. */
+export function saneDomain(domain, log = false) {
+  let [a, b] = Array.isArray(domain) ? domain : [NaN, NaN];
+  a = Number(a);
+  b = Number(b);
+  if (log) {
+    // A log axis cannot show zero or negatives: fall back to the positive part, or one decade.
+    if (!(Number.isFinite(a) && a > 0)) a = Number.isFinite(b) && b > 0 ? b / 10 : 1;
+    if (!(Number.isFinite(b) && b > 0)) b = a * 10;
+    if (a > b) [a, b] = [b, a];
+    if (a === b) {
+      a /= Math.sqrt(10);
+      b *= Math.sqrt(10);
+    }
+    return [a, b];
+  }
+  if (!Number.isFinite(a) && !Number.isFinite(b)) return [0, 1];
+  if (!Number.isFinite(a)) a = b - 1;
+  if (!Number.isFinite(b)) b = a + 1;
+  if (a > b) [a, b] = [b, a];
+  if (a === b) {
+    const pad = a === 0 ? 1 : Math.abs(a) * 0.5;
+    a -= pad;
+    b += pad;
+  }
+  return [a, b];
+}
+
+/** Round away binary noise (0.30000000000000004 -> 0.3) without changing real values. */
+function clean(v) {
+  return v === 0 ? 0 : Number(v.toPrecision(12));
+}
+
+/** The "nice" step (1, 2 or 5 × 10^n) nearest above span/target. */
+export function niceStep(span, target = 5) {
+  if (!(span > 0) || !Number.isFinite(span)) return 1;
+  const raw = span / Math.max(1, target);
+  const power = Math.pow(10, Math.floor(Math.log10(raw)));
+  const fraction = raw / power;
+  let nice;
+  if (fraction <= 1) nice = 1;
+  else if (fraction <= 2) nice = 2;
+  else if (fraction <= 5) nice = 5;
+  else nice = 10;
+  return clean(nice * power);
+}
+
+/** Widen [lo, hi] outward to whole multiples of the nice step so the ticks cover the domain. */
+export function niceDomain(domain, target = 5) {
+  const [lo, hi] = saneDomain(domain);
+  const step = niceStep(hi - lo, target);
+  return [clean(Math.floor(lo / step) * step), clean(Math.ceil(hi / step) * step)];
+}
+
+/** Ticks at multiples of a nice step inside [lo, hi] (inclusive). */
+export function linearTicks(domain, target = 5) {
+  const [lo, hi] = saneDomain(domain);
+  const step = niceStep(hi - lo, target);
+  const first = Math.ceil(lo / step - 1e-9);
+  const last = Math.floor(hi / step + 1e-9);
+  const ticks = [];
+  for (let i = first; i <= last && ticks.length < 1000; i++) ticks.push(clean(i * step));
+  return ticks;
+}
+
+/** Widen a positive domain to whole decades. */
+export function logDomain(domain) {
+  const [lo, hi] = saneDomain(domain, true);
+  const d0 = Math.floor(Math.log10(lo) + 1e-9);
+  let d1 = Math.ceil(Math.log10(hi) - 1e-9);
+  if (d1 <= d0) d1 = d0 + 1;
+  return [clean(Math.pow(10, d0)), clean(Math.pow(10, d1))];
+}
+
+/**
+ * Log-axis ticks: major ticks at every decade inside the domain, and minor ticks at 2× and 5×
+ * when the domain spans three decades or fewer (so the axis stays readable).
+ * Returns { major: number[], minor: number[] }.
+ */
+export function logTicks(domain) {
+  const [lo, hi] = saneDomain(domain, true);
+  const d0 = Math.ceil(Math.log10(lo) - 1e-9);
+  const d1 = Math.floor(Math.log10(hi) + 1e-9);
+  const major = [];
+  for (let d = d0; d <= d1 && major.length < 400; d++) major.push(clean(Math.pow(10, d)));
+  const minor = [];
+  if (Math.log10(hi / lo) <= 3.0001) {
+    for (let d = Math.floor(Math.log10(lo)); d <= d1; d++) {
+      for (const m of [2, 5]) {
+        const v = clean(m * Math.pow(10, d));
+        if (v >= lo * (1 - 1e-12) && v <= hi * (1 + 1e-12)) minor.push(v);
+      }
+    }
+  }
+  return { major, minor };
+}
+
+/**
+ * A scale maps data to pixels. linear: r0 + (v − d0)/(d1 − d0)·(r1 − r0); log: the same on
+ * log10(v). Values a log scale cannot show (≤ 0) map to NaN, which path building skips.
+ */
+export function makeScale(type, domain, range) {
+  const log = type === 'log';
+  const [d0, d1] = saneDomain(domain, log);
+  const [r0, r1] = range.map(Number);
+  const t = log ? (v) => (v > 0 ? Math.log10(v) : NaN) : (v) => v;
+  const t0 = t(d0);
+  const t1 = t(d1);
+  const scale = (v) => {
+    const tv = t(Number(v));
+    if (!Number.isFinite(tv)) return NaN;
+    return r0 + ((tv - t0) / (t1 - t0)) * (r1 - r0);
+  };
+  scale.domain = [d0, d1];
+  scale.range = [r0, r1];
+  scale.type = log ? 'log' : 'linear';
+  return scale;
+}
+
+/**
+ * Clip the segment p→q to the rectangle {x0, y0, x1, y1} (Liang–Barsky; Liang & Barsky, "A new
+ * concept and method for line clipping", ACM TOG 1984). Returns [p', q'] or null if outside.
+ */
+export function clipSegment(p, q, rect) {
+  const [px, py] = p;
+  const dx = q[0] - px;
+  const dy = q[1] - py;
+  let t0 = 0;
+  let t1 = 1;
+  const edges = [
+    [-dx, px - rect.x0],
+    [dx, rect.x1 - px],
+    [-dy, py - rect.y0],
+    [dy, rect.y1 - py],
+  ];
+  for (const [pe, qe] of edges) {
+    if (pe === 0) {
+      if (qe < 0) return null;
+    } else {
+      const r = qe / pe;
+      if (pe < 0) {
+        if (r > t1) return null;
+        if (r > t0) t0 = r;
+      } else {
+        if (r < t0) return null;
+        if (r < t1) t1 = r;
+      }
+    }
+  }
+  return [
+    [px + t0 * dx, py + t0 * dy],
+    [px + t1 * dx, py + t1 * dy],
+  ];
+}
+
+/**
+ * Clip a polygon to the rectangle (Sutherland–Hodgman; Sutherland & Hodgman, "Reentrant polygon
+ * clipping", CACM 1974). Non-finite vertices are dropped first.
+ */
+export function clipPolygon(points, rect) {
+  let out = points.filter((p) => Number.isFinite(p[0]) && Number.isFinite(p[1]));
+  const edges = [
+    [(p) => p[0] >= rect.x0, (a, b) => cutX(a, b, rect.x0)],
+    [(p) => p[0] <= rect.x1, (a, b) => cutX(a, b, rect.x1)],
+    [(p) => p[1] >= rect.y0, (a, b) => cutY(a, b, rect.y0)],
+    [(p) => p[1] <= rect.y1, (a, b) => cutY(a, b, rect.y1)],
+  ];
+  for (const [inside, cut] of edges) {
+    if (out.length === 0) break;
+    const input = out;
+    out = [];
+    for (let i = 0; i < input.length; i++) {
+      const cur = input[i];
+      const prev = input[(i + input.length - 1) % input.length];
+      if (inside(cur)) {
+        if (!inside(prev)) out.push(cut(prev, cur));
+        out.push(cur);
+      } else if (inside(prev)) {
+        out.push(cut(prev, cur));
+      }
+    }
+  }
+  return out;
+}
+
+function cutX(a, b, x) {
+  const t = (x - a[0]) / (b[0] - a[0]);
+  return [x, a[1] + t * (b[1] - a[1])];
+}
+
+function cutY(a, b, y) {
+  const t = (y - a[1]) / (b[1] - a[1]);
+  return [a[0] + t * (b[0] - a[0]), y];
+}
+
+function num(v) {
+  // Two decimals of a pixel is finer than any screen or printer resolves.
+  const r = Math.round(v * 100) / 100;
+  return Object.is(r, -0) ? '0' : String(r);
+}
+
+/**
+ * SVG path data for a polyline of pixel points, clipped to rect. Non-finite points break the
+ * line into separate runs rather than producing NaN. Returns '' when nothing is visible.
+ */
+export function linePath(pixelPoints, rect) {
+  const parts = [];
+  let penAt = null; // last point written, to continue a run without a new M
+  for (let i = 1; i < pixelPoints.length; i++) {
+    const p = pixelPoints[i - 1];
+    const q = pixelPoints[i];
+    if (![p[0], p[1], q[0], q[1]].every(Number.isFinite)) {
+      penAt = null;
+      continue;
+    }
+    const seg = clipSegment(p, q, rect);
+    if (!seg) {
+      penAt = null;
+      continue;
+    }
+    const [a, b] = seg;
+    if (!penAt || penAt[0] !== a[0] || penAt[1] !== a[1]) parts.push(`M${num(a[0])} ${num(a[1])}`);
+    parts.push(`L${num(b[0])} ${num(b[1])}`);
+    penAt = b;
+  }
+  // A single finite point inside the rect would draw nothing as a line; that is right for lines.
+  return parts.join('');
+}
+
+/** SVG path data for a closed filled region of pixel points, clipped to rect. */
+export function areaPath(pixelPoints, rect) {
+  const poly = clipPolygon(pixelPoints, rect);
+  if (poly.length < 3) return '';
+  return poly.map((p, i) => `${i === 0 ? 'M' : 'L'}${num(p[0])} ${num(p[1])}`).join('') + 'Z';
+}
+
+/** Data points → pixel points through the two scales. */
+export function project(points, xScale, yScale) {
+  return (points || []).map((p) => [xScale(p[0]), yScale(p[1])]);
+}
+
+/** Plain fallback label when no formatter is given: three significant figures. */
+export function plainLabel(v) {
+  if (!Number.isFinite(v)) return '—';
+  return String(Number(v.toPrecision(3)));
+}
+
+/**
+ * Everything renderChart draws, computed without the DOM: the plot rectangle, the scales, the
+ * ticks with labels, and each series' path data. Exported so it can be tested in Node.
+ *
+ * spec = {
+ *   width, height,                       // viewBox size in px (the SVG scales to its box)
+ *   x: { label, type: 'linear'|'log', domain: [lo, hi], format: v => string, nice: true },
+ *   y: { … same … },
+ *   series: [ { kind: 'line'|'area'|'marker', points: [[x, y], …], label, tone: 1..5,
+ *               dash: 'solid'|'dashed'|'dotted'|'dashdot'|'long', width } ],
+ *   notes:  [ { x, y, text, anchor: 'start'|'middle'|'end' } ]   // labels placed in data space
+ * }
+ */
+export function layoutChart(spec) {
+  const width = spec.width || 640;
+  const height = spec.height || 400;
+  const margin = { top: 14, right: 18, bottom: 50, left: 72, ...(spec.margin || {}) };
+  const rect = {
+    x0: margin.left,
+    x1: Math.max(margin.left + 10, width - margin.right),
+    y0: margin.top,
+    y1: Math.max(margin.top + 10, height - margin.bottom),
+  };
+  const axis = (a, r) => {
+    const type = a.type === 'log' ? 'log' : 'linear';
+    const nice = a.nice !== false;
+    let domain = saneDomain(a.domain, type === 'log');
+    if (nice) domain = type === 'log' ? logDomain(domain) : niceDomain(domain, a.ticks || 5);
+    const scale = makeScale(type, domain, r);
+    const format = typeof a.format === 'function' ? a.format : plainLabel;
+    let major;
+    let minor = [];
+    if (type === 'log') ({ major, minor } = logTicks(domain));
+    else major = linearTicks(domain, a.ticks || 5);
+    const ticks = major.map((v) => ({ value: v, pos: scale(v), label: safeLabel(format, v) }));
+    const minorTicks = minor.map((v) => ({ value: v, pos: scale(v) }));
+    return { type, domain, scale, ticks, minorTicks, label: a.label || '' };
+  };
+  const x = axis(spec.x || {}, [rect.x0, rect.x1]);
+  // SVG y grows downwards: the lowest value sits at the bottom edge.
+  const y = axis(spec.y || {}, [rect.y1, rect.y0]);
+  const series = (spec.series || []).map((s, i) => {
+    const px = project(s.points, x.scale, y.scale);
+    let d = '';
+    let markers = [];
+    if (s.kind === 'area') d = areaPath(px, rect);
+    else if (s.kind === 'marker') {
+      markers = px.filter(
+        (p) => Number.isFinite(p[0]) && Number.isFinite(p[1]) &&
+          p[0] >= rect.x0 && p[0] <= rect.x1 && p[1] >= rect.y0 && p[1] <= rect.y1,
+      );
+    } else d = linePath(px, rect);
+    return {
+      kind: s.kind || 'line',
+      label: s.label || `series ${i + 1}`,
+      tone: Math.min(5, Math.max(1, Math.round(s.tone || i + 1))),
+      dash: Object.prototype.hasOwnProperty.call(DASHES, s.dash) ? s.dash : 'solid',
+      width: s.width || 2,
+      d,
+      markers,
+      legend: s.legend !== false,
+    };
+  });
+  const notes = (spec.notes || [])
+    .map((n) => ({ ...n, px: x.scale(n.x), py: y.scale(n.y) }))
+    .filter((n) => Number.isFinite(n.px) && Number.isFinite(n.py));
+  return { width, height, rect, x, y, series, notes };
+}
+
+function safeLabel(format, v) {
+  try {
+    const s = format(v);
+    return typeof s === 'string' ? s : String(s);
+  } catch {
+    return plainLabel(v);
+  }
+}
+
+let chartCounter = 0;
+
+function el(name, attrs = {}, text) {
+  const node = document.createElementNS(SVG_NS, name);
+  for (const [k, v] of Object.entries(attrs)) {
+    if (v !== undefined && v !== null && v !== '') node.setAttribute(k, String(v));
+  }
+  if (text !== undefined) node.textContent = text;
+  return node;
+}
+
+/**
+ * Draw a chart. Returns { svg, legend }: the <svg> element and an HTML <ul> legend in words.
+ * spec is as for layoutChart, plus title (short) and description (a sentence for screen readers).
+ */
+export function renderChart(spec) {
+  const L = layoutChart(spec);
+  const id = `rn-chart-${++chartCounter}`;
+  const svg = el('svg', {
+    viewBox: `0 0 ${L.width} ${L.height}`,
+    role: 'img',
+    'aria-label': spec.title || 'chart',
+    class: 'rn-chart',
+    preserveAspectRatio: 'xMidYMid meet',
+  });
+  svg.append(el('title', {}, spec.title || 'chart'));
+  if (spec.description) svg.append(el('desc', {}, spec.description));
+
+  const { rect } = L;
+  const defs = el('defs');
+  const clip = el('clipPath', { id: `${id}-clip` });
+  clip.append(el('rect', { x: rect.x0, y: rect.y0, width: rect.x1 - rect.x0, height: rect.y1 - rect.y0 }));
+  defs.append(clip);
+  svg.append(defs);
+
+  svg.append(el('rect', {
+    class: 'rn-chart-plot', x: rect.x0, y: rect.y0, width: rect.x1 - rect.x0, height: rect.y1 - rect.y0,
+  }));
+
+  // Grid and ticks.
+  const grid = el('g', { class: 'rn-chart-grid', 'aria-hidden': 'true' });
+  for (const t of L.x.minorTicks) grid.append(el('line', { class: 'rn-minor', x1: t.pos, x2: t.pos, y1: rect.y0, y2: rect.y1 }));
+  for (const t of L.y.minorTicks) grid.append(el('line', { class: 'rn-minor', x1: rect.x0, x2: rect.x1, y1: t.pos, y2: t.pos }));
+  for (const t of L.x.ticks) grid.append(el('line', { x1: t.pos, x2: t.pos, y1: rect.y0, y2: rect.y1 }));
+  for (const t of L.y.ticks) grid.append(el('line', { x1: rect.x0, x2: rect.x1, y1: t.pos, y2: t.pos }));
+  svg.append(grid);
+
+  const axes = el('g', { class: 'rn-chart-axes' });
+  axes.append(el('line', { x1: rect.x0, x2: rect.x1, y1: rect.y1, y2: rect.y1 }));
+  axes.append(el('line', { x1: rect.x0, x2: rect.x0, y1: rect.y0, y2: rect.y1 }));
+  for (const t of L.x.ticks) {
+    axes.append(el('line', { x1: t.pos, x2: t.pos, y1: rect.y1, y2: rect.y1 + 5 }));
+    axes.append(el('text', { x: t.pos, y: rect.y1 + 18, 'text-anchor': 'middle' }, t.label));
+  }
+  for (const t of L.y.ticks) {
+    axes.append(el('line', { x1: rect.x0 - 5, x2: rect.x0, y1: t.pos, y2: t.pos }));
+    axes.append(el('text', { x: rect.x0 - 8, y: t.pos + 4, 'text-anchor': 'end' }, t.label));
+  }
+  axes.append(el('text', { class: 'rn-axis-label', x: (rect.x0 + rect.x1) / 2, y: L.height - 8, 'text-anchor': 'middle' }, L.x.label));
+  const yl = el('text', {
+    class: 'rn-axis-label', x: 0, y: 0, 'text-anchor': 'middle',
+    transform: `translate(14 ${(rect.y0 + rect.y1) / 2}) rotate(-90)`,
+  }, L.y.label);
+  axes.append(yl);
+  svg.append(axes);
+
+  // Series, clipped to the plot area (path data is clipped already; the clipPath also trims
+  // stroke caps and marker shapes that overhang the edge).
+  const body = el('g', { 'clip-path': `url(#${id}-clip)` });
+  for (const s of L.series) {
+    const cls = `rn-series rn-${s.kind} rn-tone-${s.tone}`;
+    if (s.kind === 'marker') {
+      const g = el('g', { class: cls });
+      for (const [mx, my] of s.markers) {
+        g.append(el('path', { d: `M${num(mx - 5)} ${num(my)}L${num(mx)} ${num(my - 5)}L${num(mx + 5)} ${num(my)}L${num(mx)} ${num(my + 5)}Z` }));
+      }
+      body.append(g);
+    } else if (s.d) {
+      body.append(el('path', {
+        class: cls, d: s.d, 'stroke-width': s.kind === 'area' ? undefined : s.width,
+        'stroke-dasharray': DASHES[s.dash] || undefined,
+      }));
+    }
+  }
+  svg.append(body);
+
+  const notes = el('g', { class: 'rn-chart-notes' });
+  for (const n of L.notes) {
+    notes.append(el('text', { x: n.px, y: n.py, 'text-anchor': n.anchor || 'middle' }, n.text));
+  }
+  svg.append(notes);
+
+  // Legend in words, with a swatch drawn in the series' own dash pattern.
+  const legend = document.createElement('ul');
+  legend.className = 'rn-legend';
+  for (const s of L.series) {
+    if (!s.legend) continue;
+    const li = document.createElement('li');
+    const sw = el('svg', { viewBox: '0 0 36 14', width: 36, height: 14, 'aria-hidden': 'true', class: 'rn-swatch' });
+    const cls = `rn-series rn-${s.kind} rn-tone-${s.tone}`;
+    if (s.kind === 'area') sw.append(el('rect', { class: cls, x: 1, y: 1, width: 34, height: 12 }));
+    else if (s.kind === 'marker') sw.append(el('path', { class: cls, d: 'M13 7L18 2L23 7L18 12Z' }));
+    else sw.append(el('line', { class: cls, x1: 1, x2: 35, y1: 7, y2: 7, 'stroke-width': s.width, 'stroke-dasharray': DASHES[s.dash] || undefined }));
+    li.append(sw);
+    const span = document.createElement('span');
+    span.textContent = s.label;
+    li.append(span);
+    legend.append(li);
+  }
+  return { svg, legend };
+}
