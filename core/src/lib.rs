@@ -1,4 +1,26 @@
-//! railnote-core (work in progress: being written now).
+//! railnote-core: the calculations behind railnote's power-rail checks.
+//!
+//! One module per calculator plus the shared pieces:
+//!
+//! - [`units`]: reading quantities as engineers type them (engineering notation, SI prefixes,
+//!   the IEC 60062 RKM code) and writing them back in engineering notation.
+//! - [`error`]: the one input error type, naming the field and the reason.
+//! - [`linear`]: the linear rail check.
+//!
+//! The crate is `no_std` with `alloc`, does no IO and knows nothing of JavaScript: the `wasm`
+//! crate is the only place that does. Every calculator validates its input into a checked type
+//! first; computing from that type cannot fail. Maths goes through `libm` so that native and
+//! WebAssembly builds give the same numbers.
 #![no_std]
 #![forbid(unsafe_code)]
+#![warn(missing_debug_implementations)]
+
 extern crate alloc;
+#[cfg(feature = "std")]
+extern crate std;
+
+pub mod error;
+pub mod linear;
+pub mod units;
+
+pub use error::InputError;

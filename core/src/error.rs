@@ -1,0 +1,132 @@
+//! The one error every calculator returns for input it cannot use.
+
+use alloc::string::String;
+use core::fmt;
+
+/// An input value a calculator cannot use, naming the field and the reason in words.
+///
+/// `field` is the input's key in the serialised form (camelCase, e.g. `"vinMin"`), so that a
+/// page can put the message next to the right field; `message` is a sentence for the user that
+/// names the quantity the way the trade writes it ("V_in,min must be above V_out (3.3 V)").
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct InputError {
+    pub field: &'static str,
+    pub message: String,
+}
+
+impl InputError {
+    pub fn new(field: &'static str, message: impl Into<String>) -> InputError {
+        InputError {
+            field,
+            message: message.into(),
+        }
+    }
+}
+
+impl fmt::Display for InputError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(&self.message)
+    }
+}
+
+impl core::error::Error for InputError {}
+
+/// Checks shared by the calculators' validation steps. Each returns the value when it is usable
+/// so that validation reads as a list of named fields.
+pub(crate) mod check {
+    use super::InputError;
+    use crate::units::{format_quantity, QuantityKind};
+    use alloc::format;
+
+    /// The largest magnitude any input may have. It keeps every product and quotient the
+    /// calculators form finite, far beyond any board-level value.
+    pub const LIMIT: f64 = 1.0e6;
+
+    pub fn show(value: f64, kind: QuantityKind) -> alloc::string::String {
+        format_quantity(value, kind, 4)
+    }
+
+    /// A finite number no larger in magnitude than [`LIMIT`].
+    pub fn finite(
+        field: &'static str,
+        label: &str,
+        value: f64,
+        kind: QuantityKind,
+    ) -> Result<f64, InputError> {
+        if !value.is_finite() {
+            return Err(InputError::new(
+                field,
+                format!("{label} must be a finite number"),
+            ));
+        }
+        if value.abs() > LIMIT {
+            return Err(InputError::new(
+                field,
+                format!("{label} must be at most {}", show(LIMIT, kind)),
+            ));
+        }
+        Ok(value)
+    }
+
+    /// Strictly above `low`.
+    pub fn above(
+        field: &'static str,
+        label: &str,
+        value: f64,
+        low: f64,
+        kind: QuantityKind,
+    ) -> Result<f64, InputError> {
+        let value = finite(field, label, value, kind)?;
+        if value > low {
+            Ok(value)
+        } else {
+            Err(InputError::new(
+                field,
+                format!("{label} must be above {}", show(low, kind)),
+            ))
+        }
+    }
+
+    /// At least `low`.
+    pub fn at_least(
+        field: &'static str,
+        label: &str,
+        value: f64,
+        low: f64,
+        kind: QuantityKind,
+    ) -> Result<f64, InputError> {
+        let value = finite(field, label, value, kind)?;
+        if value >= low {
+            Ok(value)
+        } else {
+            Err(InputError::new(
+                field,
+                format!("{label} must not be below {}", show(low, kind)),
+            ))
+        }
+    }
+
+    /// Within `low..=high`.
+    pub fn within(
+        field: &'static str,
+        label: &str,
+        value: f64,
+        low: f64,
+        high: f64,
+        kind: QuantityKind,
+    ) -> Result<f64, InputError> {
+        let value = finite(field, label, value, kind)?;
+        if (low..=high).contains(&value) {
+            Ok(value)
+        } else {
+            Err(InputError::new(
+                field,
+                format!(
+                    "{label} must be between {} and {}",
+                    show(low, kind),
+                    show(high, kind)
+                ),
+            ))
+        }
+    }
+}

@@ -1,0 +1,219 @@
+//! Reading and writing quantities, checked against the standards that define the spellings.
+//!
+//! Tolerance: parsing is exact up to the rounding of one multiplication by a power of ten, so
+//! values are compared with a relative error of 1e-12.
+
+use railnote_core::units::{format_quantity, parse_quantity, ParseProblem, QuantityKind};
+use QuantityKind::*;
+
+/// The only test code that calls the parser: `text` read as `kind` must give `expected`.
+fn check(text: &str, kind: QuantityKind, expected: Result<f64, ParseProblem>) {
+    let got = parse_quantity(text, kind);
+    match (got, expected) {
+        (Ok(v), Ok(want)) => {
+            let err = if want == 0.0 {
+                v.abs()
+            } else {
+                ((v - want) / want).abs()
+            };
+            assert!(err <= 1e-12, "{text:?} as {kind:?}: got {v}, want {want}");
+            assert!(!(v == 0.0 && v.is_sign_negative()), "{text:?} gave -0");
+        }
+        (Err(e), Err(want)) => assert_eq!(e.problem, want, "{text:?} as {kind:?}: {e}"),
+        (got, want) => panic!("{text:?} as {kind:?}: got {got:?}, want {want:?}"),
+    }
+}
+
+#[test]
+fn iec_60062_rkm_code() {
+    // IEC 60062, letter-and-digit code: the letter stands for the decimal point and gives the
+    // multiplier (R = 1 for ohms, k = 10^3, M = 10^6, G = 10^9; p, n, µ, m for capacitors).
+    // The examples are the standard's own style of marking.
+    let cases: &[(&str, QuantityKind, f64)] = &[
+        ("R47", Resistance, 0.47),
+        ("0R1", Resistance, 0.1),
+        ("4R7", Resistance, 4.7),
+        ("47R", Resistance, 47.0),
+        ("4k7", Resistance, 4700.0),
+        ("4K7", Resistance, 4700.0),
+        ("47k", Resistance, 47_000.0),
+        ("2M2", Resistance, 2.2e6),
+        ("1G0", Resistance, 1.0e9),
+        ("4n7", Capacitance, 4.7e-9),
+        ("2p2", Capacitance, 2.2e-12),
+        ("4µ7", Capacitance, 4.7e-6),
+        ("6m8", Capacitance, 6.8e-3),
+        // The same idea carried to voltages, as schematics write rail names (common practice).
+        ("3V3", Voltage, 3.3),
+        ("1V8", Voltage, 1.8),
+        ("0V9", Voltage, 0.9),
+        ("2A5", Current, 2.5),
+    ];
+    for &(text, kind, value) in cases {
+        check(text, kind, Ok(value));
+    }
+}
+
+#[test]
+fn si_prefixes_and_units() {
+    // SI Brochure (BIPM, 9th edition), table 7: the prefixes and their powers of ten.
+    let cases: &[(&str, QuantityKind, f64)] = &[
+        ("4.7k", Resistance, 4700.0),
+        ("4.7 kΩ", Resistance, 4700.0),
+        ("4.7 k\u{2126}", Resistance, 4700.0),
+        ("10 ohm", Resistance, 10.0),
+        ("2.2 µF", Capacitance, 2.2e-6),
+        ("2.2 μF", Capacitance, 2.2e-6),
+        ("2.2uF", Capacitance, 2.2e-6),
+        ("100n", Capacitance, 100e-9),
+        ("500mA", Current, 0.5),
+        ("1e-3 A", Current, 1e-3),
+        ("1E-3A", Current, 1e-3),
+        ("50 µA", Current, 50e-6),
+        (".5", Current, 0.5),
+        ("+3.3", Voltage, 3.3),
+        ("12 V", Voltage, 12.0),
+        ("0.5 W", Power, 0.5),
+        ("500 mW", Power, 0.5),
+        ("2.2 MHz", Frequency, 2.2e6),
+        ("4.7 µH", Inductance, 4.7e-6),
+        ("20 ns", Time, 20e-9),
+        ("1.5 ms", Time, 1.5e-3),
+        ("1 T", Voltage, 1e12),
+        ("3 f", Capacitance, 3e-15),
+        ("-40 °C", Temperature, -40.0),
+        ("\u{2212}40 °C", Temperature, -40.0),
+        ("85C", Temperature, 85.0),
+        ("85 ℃", Temperature, 85.0),
+        ("100 K/W", ThermalResistance, 100.0),
+        ("45 °C/W", ThermalResistance, 45.0),
+        ("45", ThermalResistance, 45.0),
+        ("15 K", TemperatureDifference, 15.0),
+        ("2 %", Percent, 2.0),
+        ("2%", Percent, 2.0),
+        ("0.5", Percent, 0.5),
+        ("-0", Voltage, 0.0),
+        ("  3.3  ", Voltage, 3.3),
+    ];
+    for &(text, kind, value) in cases {
+        check(text, kind, Ok(value));
+    }
+}
+
+#[test]
+fn everything_else_is_refused_with_a_reason() {
+    use ParseProblem::*;
+    let long = "1".repeat(100);
+    let cases: &[(&str, QuantityKind, ParseProblem)] = &[
+        ("", Voltage, Empty),
+        ("   ", Voltage, Empty),
+        ("abc", Voltage, NotANumber),
+        ("NaN", Voltage, NotANumber),
+        ("nan", Voltage, NotANumber),
+        ("Infinity", Voltage, NotANumber),
+        ("inf", Voltage, NotANumber),
+        ("-inf", Voltage, NotANumber),
+        ("1e400", Voltage, OutOfRange),
+        ("-1e400", Voltage, OutOfRange),
+        ("1e-400", Voltage, OutOfRange),
+        ("1e308 k", Voltage, OutOfRange),
+        ("1e", Voltage, NotANumber),
+        ("1.2.3", Voltage, NotANumber),
+        ("3,3", Voltage, NotANumber),
+        ("0x10", Voltage, NotANumber),
+        ("٣", Voltage, NotANumber),
+        ("３.３", Voltage, NotANumber),
+        ("3.3 Ѵ", Voltage, NotANumber),
+        ("3.3 VV", Voltage, NotANumber),
+        ("4k7k", Resistance, NotANumber),
+        ("k", Resistance, NotANumber),
+        ("500 mA", Voltage, OtherKind(Current)),
+        ("3.3 V", Current, OtherKind(Voltage)),
+        ("3V3", Current, NotANumber),
+        ("10 W", Temperature, OtherKind(Power)),
+        ("2.2 µF", Inductance, OtherKind(Capacitance)),
+        ("5 mK/W", ThermalResistance, PrefixNotAllowed),
+        ("2 k%", Percent, PrefixNotAllowed),
+        ("85 m°C", Temperature, PrefixNotAllowed),
+        ("<script>alert(1)</script>", Voltage, NotANumber),
+        ("<img src=x onerror=alert(1)>", Voltage, NotANumber),
+        (&long, Voltage, TooLong),
+    ];
+    for &(text, kind, problem) in cases {
+        check(text, kind, Err(problem));
+    }
+}
+
+#[test]
+fn messages_say_what_was_expected() {
+    let e = parse_quantity("500 mA", Voltage).unwrap_err();
+    assert_eq!(
+        e.to_string(),
+        "that is a current; expected a voltage such as 3.3 V, 3V3 or 500 mV"
+    );
+    let e = parse_quantity("", Resistance).unwrap_err();
+    assert_eq!(e.to_string(), "enter a resistance such as 4.7k, 4k7 or 0R1");
+}
+
+#[test]
+fn engineering_notation_output() {
+    // Engineering notation: exponent a multiple of three, written as an SI prefix (SI Brochure
+    // table 7), mantissa from 1 to 999 with the asked-for significant figures.
+    let cases: &[(f64, QuantityKind, u32, &str)] = &[
+        (0.0123, Current, 3, "12.3 mA"),
+        (0.25, Current, 3, "250 mA"),
+        (50e-6, Current, 2, "50 µA"),
+        (4700.0, Resistance, 2, "4.7 kΩ"),
+        (2.2e6, Resistance, 3, "2.20 MΩ"),
+        (0.4921325, Power, 3, "492 mW"),
+        (999.96, Voltage, 3, "1.00 kV"),
+        (0.99996, Voltage, 3, "1.00 V"),
+        (9.996, Voltage, 3, "10.0 V"),
+        (-0.0004, Current, 3, "-400 µA"),
+        (-1e-9, Current, 1, "-1 nA"),
+        (0.0, Voltage, 3, "0 V"),
+        (-0.0, Voltage, 3, "0 V"),
+        (109.21325, Temperature, 3, "109 °C"),
+        (-40.0, Temperature, 2, "-40 °C"),
+        (15.78675, TemperatureDifference, 3, "15.8 K"),
+        (65.3336, Percent, 3, "65.3 %"),
+        (100.0, ThermalResistance, 3, "100 K/W"),
+        (2.2e6, Frequency, 2, "2.2 MHz"),
+        (1e-13, Current, 3, "100 fA"),
+        (1e-18, Current, 3, "0.00100 fA"),
+        (5e15, Voltage, 2, "5000 TV"),
+        (f64::NAN, Voltage, 3, "—"),
+        (f64::INFINITY, Voltage, 3, "—"),
+    ];
+    for &(value, kind, digits, want) in cases {
+        assert_eq!(format_quantity(value, kind, digits), want, "{value} {kind:?}");
+    }
+}
+
+#[test]
+fn formatted_values_read_back() {
+    // Whatever railnote prints, it must accept again: a value copied from a result into a
+    // field keeps its meaning (to the printed precision).
+    for &(value, kind) in &[
+        (0.0123, Current),
+        (4700.0, Resistance),
+        (2.2e-6, Capacitance),
+        (109.2, Temperature),
+        (15.8, TemperatureDifference),
+        (65.3, Percent),
+        (100.0, ThermalResistance),
+        (-0.0004, Current),
+    ] {
+        let text = format_quantity(value, kind, 6);
+        let back = parse_quantity(&text, kind).unwrap_or_else(|e| panic!("{text}: {e}"));
+        assert!(((back - value) / value).abs() < 1e-6, "{text} read back as {back}");
+    }
+}
+
+#[test]
+fn kinds_round_trip_by_name() {
+    for kind in QuantityKind::ALL {
+        assert_eq!(QuantityKind::from_name(kind.name()), Some(kind));
+    }
+    assert_eq!(QuantityKind::from_name("volts"), None);
+}
