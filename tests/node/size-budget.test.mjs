@@ -1,0 +1,25 @@
+// Size budget of the optimised WASM module: gzip -9 of site/pkg/railnote_bg.wasm must stay within
+// 64 KiB, the first-load budget the project set for one widget's engine. Run after
+// `cargo xtask build` (site/pkg is a build output).
+import { test } from 'node:test';
+import assert from 'node:assert/strict';
+import { readFileSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
+
+const BUDGET_BYTES = 64 * 1024;
+const wasmUrl = new URL('../../site/pkg/railnote_bg.wasm', import.meta.url);
+
+test('optimised railnote_bg.wasm gzipped (-9) fits in 64 KiB', () => {
+  const raw = readFileSync(wasmUrl);
+  // A real module, not an empty or truncated file: the \0asm magic and version 1.
+  assert.deepEqual([...raw.subarray(0, 8)], [0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00]);
+  const gzipped = gzipSync(raw, { level: 9 }).length;
+  console.log(
+    `railnote_bg.wasm: ${raw.length} B optimised, ${gzipped} B gzip -9 ` +
+      `(${(gzipped / 1024).toFixed(1)} KiB of the ${BUDGET_BYTES / 1024} KiB budget)`,
+  );
+  assert.ok(
+    gzipped <= BUDGET_BYTES,
+    `gzip -9 size ${gzipped} B is over the budget of ${BUDGET_BYTES} B`,
+  );
+});
