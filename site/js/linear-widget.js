@@ -1,0 +1,466 @@
+// <railnote-linear>: the linear rail check as a custom element.
+//
+// Its state is its attributes: each input field has an attribute of the same name (vin-min,
+// vout, theta-ja, …), which prefills it and is kept up to date as the user types. With the
+// attribute `sync-url` the same names are also the page's query keys, holding the raw text the
+// user typed, so a link reproduces the check exactly. `compact` folds the long tables (embeds).
+//
+// After every render the element sets data-state ("ready" with a result, "error" when a field is
+// bad, "failed" if the engine could not load) and dispatches a bubbling `railnote-result`
+// CustomEvent whose detail is { state, result } (result is null unless state is "ready").
+//
+// The numbers all come from the WASM API (checkLinear, formatQuantity, parseQuantity); this file
+// lays them out and never computes them.
+import { ready } from './engine.js';
+import {
+  h, symbol, uniquePrefix, buildField, setFieldMessage, setFieldText, parseFields, errorText,
+  readQuery, UrlState, shareLink, copyText, createAnnouncer, formatWith, stampNow,
+} from './common.js';
+import { renderChart } from './chart.js';
+
+/** Dropout models, as the WASM API names them. */
+const DROPOUT_MODELS = [
+  { value: 'resistive', label: 'MOS pass element: dropout scales with load current' },
+  { value: 'constant', label: 'bipolar pass element: roughly constant dropout' },
+  { value: 'classic', label: 'classic three-terminal (about 2 V, common practice)' },
+];
+
+/**
+ * The fields, in groups. key = attribute and URL query name; prop = the checkLinear input key;
+ * kind = the parseQuantity kind; def = default text (the brief's demo rail: the 3.3 V LDO of the
+ * soil-moisture logger, fed from its 5.0 V buck rail, enclosure up to 60 °C).
+ */
+export const GROUPS = [
+  {
+    title: 'Supply',
+    fields: [
+      { key: 'vin-min', prop: 'vinMin', kind: 'voltage', unit: 'V', label: 'Lowest input', sym: ['V', 'in,min'], def: '4.85 V' },
+      { key: 'vin-nom', prop: 'vinNom', kind: 'voltage', unit: 'V', label: 'Nominal input', sym: ['V', 'in,nom'], def: '5.0 V' },
+      { key: 'vin-max', prop: 'vinMax', kind: 'voltage', unit: 'V', label: 'Highest input', sym: ['V', 'in,max'], def: '5.15 V' },
+      { key: 'input-budget', prop: 'inputBudgetA', kind: 'current', unit: 'A', label: 'Current the parent supply can give', optional: true, def: '' },
+    ],
+  },
+  {
+    title: 'Output',
+    fields: [
+      { key: 'vout', prop: 'vout', kind: 'voltage', unit: 'V', label: 'Output voltage', sym: ['V', 'out'], def: '3.3 V' },
+      { key: 'vout-tol', prop: 'voutTolPct', kind: 'percent', unit: '± %', label: 'Output tolerance', def: '2 %' },
+      { key: 'iout-max', prop: 'ioutMax', kind: 'current', unit: 'A', label: 'Highest load', sym: ['I', 'out,max'], def: '250 mA' },
+      { key: 'iout-typ', prop: 'ioutTyp', kind: 'current', unit: 'A', label: 'Typical load', sym: ['I', 'out,typ'], def: '30 mA' },
+    ],
+  },
+  {
+    title: 'Regulator',
+    fields: [
+      { key: 'dropout-model', prop: 'dropoutModel', type: 'select', options: DROPOUT_MODELS, label: 'Dropout model', def: 'resistive',
+        note: 'The classic model uses 2.0 V and ignores the two dropout fields below.' },
+      { key: 'dropout', prop: 'dropoutV', kind: 'voltage', unit: 'V', label: 'Dropout voltage', sym: ['V', 'do'], def: '300 mV' },
+      { key: 'dropout-at', prop: 'dropoutAtA', kind: 'current', unit: 'A', label: 'Dropout rated at load', def: '300 mA',
+        note: 'Used by the MOS model only.' },
+      { key: 'rated', prop: 'ratedA', kind: 'current', unit: 'A', label: 'Rated output current', def: '300 mA' },
+      { key: 'iq', prop: 'iq', kind: 'current', unit: 'A', label: 'Quiescent ground current', sym: ['I', 'q'], def: '50 µA' },
+      { key: 'gnd', prop: 'gndPct', kind: 'percent', unit: '% of load', label: 'Ground current added per load', def: '1 %' },
+    ],
+  },
+  {
+    title: 'Thermal and limits',
+    fields: [
+      { key: 'theta-ja', prop: 'thetaJa', kind: 'thermalResistance', unit: 'K/W', label: 'Junction to ambient', sym: ['θ', 'JA'], def: '100 K/W' },
+      { key: 'ta-max', prop: 'taMax', kind: 'temperature', unit: '°C', label: 'Hottest ambient', sym: ['T', 'a,max'], def: '60 °C' },
+      { key: 'tj-max', prop: 'tjMax', kind: 'temperature', unit: '°C', label: 'Junction limit', sym: ['T', 'j,max'], def: '125 °C' },
+      { key: 'headroom-margin', prop: 'headroomMarginV', kind: 'voltage', unit: 'V', label: 'Wanted headroom margin', def: '0.3 V' },
+      { key: 'thermal-margin', prop: 'thermalMarginC', kind: 'temperatureDifference', unit: 'K', label: 'Wanted margin below the junction limit', def: '15 K' },
+      { key: 'eff-min', prop: 'effMinPct', kind: 'percent', unit: '%', label: 'Wanted efficiency (nominal input, typical load)', optional: true, def: '' },
+    ],
+  },
+];
+
+export const FIELD_DEFS = GROUPS.flatMap((g) => g.fields);
+const KEYS = FIELD_DEFS.map((d) => d.key);
+const BY_PROP = new Map(FIELD_DEFS.map((d) => [d.prop, d]));
+
+const VERDICT_WORDS = { pass: 'Pass', marginal: 'Marginal', fail: 'Fail' };
+const VERDICT_MARKS = { pass: '✓', marginal: '!', fail: '✗' };
+const BOUND_WORDS = {
+  thermal: 'the junction temperature limit (with its margin)',
+  headroom: 'headroom over dropout (with its margin)',
+  rating: 'the regulator’s current rating',
+};
+
+const FULL_PAGE = new URL('../linear.html', import.meta.url).href;
+
+export class RailnoteLinear extends HTMLElement {
+  static get observedAttributes() {
+    return KEYS;
+  }
+
+  constructor() {
+    super();
+    this.built = false;
+    this.api = null;
+    this.fields = [];
+    this.result = null;
+    this.reflecting = false;
+    this.initial = new Map();
+  }
+
+  connectedCallback() {
+    if (this.built) return;
+    this.built = true;
+    for (const d of FIELD_DEFS) this.initial.set(d.key, this.hasAttribute(d.key) ? this.getAttribute(d.key) : d.def);
+    this.dataset.state = 'loading';
+    this.build();
+    ready.then(
+      (api) => {
+        this.api = api;
+        this.restore();
+        this.compute();
+      },
+      (err) => {
+        this.dataset.state = 'failed';
+        this.status.textContent = `The calculation engine could not load (${errorText(err)}). Reload the page; if it persists, the site's pkg/ folder is missing or damaged.`;
+        this.dispatchEvent(new CustomEvent('railnote-result', { bubbles: true, detail: { state: 'failed', result: null } }));
+      },
+    );
+  }
+
+  attributeChangedCallback(name, _old, value) {
+    if (this.reflecting || !this.built || !this.api) return;
+    const f = this.fields.find((x) => x.def.key === name);
+    if (!f) return;
+    const text = value === null ? f.def.def : value;
+    if (f.input.value !== text) {
+      setFieldText(f, text);
+      this.compute();
+    }
+  }
+
+  /** The current text of every field, in field order. */
+  texts() {
+    return new Map(this.fields.map((f) => [f.def.key, f.input.value]));
+  }
+
+  build() {
+    const prefix = uniquePrefix('rn-lin');
+    this.classList.add('rn-widget');
+    const form = h('form', { class: 'rn-inputs', novalidate: true, 'aria-label': 'Linear rail inputs' });
+    form.addEventListener('submit', (e) => e.preventDefault());
+    for (const g of GROUPS) {
+      const fs = h('fieldset', { class: 'rn-group' }, h('legend', {}, g.title));
+      for (const d of g.fields) {
+        const f = buildField(d, prefix);
+        this.fields.push(f);
+        fs.append(f.root);
+      }
+      form.append(fs);
+    }
+    form.addEventListener('input', (e) => this.onEdit(e));
+    form.addEventListener('change', (e) => this.onEdit(e));
+
+    this.linkField = h('input', { type: 'text', readonly: true, class: 'rn-link-fallback', hidden: true, 'aria-label': 'Link to this check' });
+    this.toolStatus = h('span', { class: 'rn-tool-status', role: 'status' });
+    const tools = h('div', { class: 'rn-tools' },
+      h('button', { type: 'button', class: 'rn-copy', on: { click: () => this.copyLink() } }, 'Copy link'),
+      h('button', { type: 'button', class: 'rn-reset', on: { click: () => this.reset() } }, 'Reset to ' + (this.hasAnyInitialAttribute() ? 'the embedded values' : 'the demo rail')),
+      this.toolStatus, this.linkField);
+
+    this.status = h('p', { class: 'rn-status', text: 'Loading the calculation engine…' });
+    this.announcer = createAnnouncer();
+    this.results = h('section', { class: 'rn-results', 'aria-label': 'Results of the linear rail check' });
+
+    this.append(
+      h('div', { class: 'rn-sheet' },
+        h('div', { class: 'rn-sheet-inputs' }, form, tools),
+        h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
+      this.announcer.region);
+    if (this.hasAttribute('sync-url')) this.urlState = new UrlState(KEYS);
+  }
+
+  hasAnyInitialAttribute() {
+    return FIELD_DEFS.some((d) => this.hasAttribute(d.key));
+  }
+
+  /** Fill the fields from attributes, then (with sync-url) from the page URL, exactly as given. */
+  restore() {
+    const fromUrl = this.urlState ? readQuery(KEYS) : new Map();
+    for (const f of this.fields) {
+      const k = f.def.key;
+      setFieldText(f, fromUrl.has(k) ? fromUrl.get(k) : this.initial.get(k));
+    }
+    this.reflectAll();
+  }
+
+  reflectAll() {
+    this.reflecting = true;
+    for (const f of this.fields) this.setAttribute(f.def.key, f.input.value);
+    this.reflecting = false;
+  }
+
+  onEdit(e) {
+    const f = this.fields.find((x) => x.input === e.target);
+    if (!f || !this.api) return;
+    if (f.def.type === 'select' && f.input.value !== '') setFieldText(f, f.input.value);
+    this.reflecting = true;
+    this.setAttribute(f.def.key, f.input.value);
+    this.reflecting = false;
+    this.compute();
+    if (this.urlState) this.urlState.write(this.texts());
+  }
+
+  reset() {
+    for (const f of this.fields) {
+      setFieldText(f, this.initial.get(f.def.key));
+    }
+    this.reflectAll();
+    if (this.urlState) this.urlState.clear();
+    this.compute();
+    this.toolStatus.textContent = 'Reset.';
+  }
+
+  currentLink() {
+    return shareLink(FULL_PAGE, this.texts());
+  }
+
+  async copyLink() {
+    if (this.urlState) this.urlState.flush();
+    const link = this.currentLink();
+    const how = await copyText(link, this.linkField);
+    this.toolStatus.textContent = how === 'copied'
+      ? 'Link copied.'
+      : 'Copying was refused here: the link is selected below, copy it with Ctrl+C (⌘C).';
+  }
+
+  compute() {
+    const api = this.api;
+    for (const f of this.fields) setFieldMessage(f, null);
+    const { values, bad } = parseFields(api, this.fields);
+    if (bad.length) {
+      for (const [f, msg] of bad) setFieldMessage(f, msg);
+      this.renderError(bad);
+      return;
+    }
+    let result;
+    try {
+      result = api.checkLinear(values);
+    } catch (err) {
+      const def = err && BY_PROP.get(err.field);
+      const f = def && this.fields.find((x) => x.def === def);
+      if (f) {
+        setFieldMessage(f, errorText(err));
+        this.renderError([[f, errorText(err)]]);
+      } else {
+        this.renderError([[null, errorText(err)]]);
+      }
+      return;
+    }
+    this.renderResult(result);
+  }
+
+  finish(state, result) {
+    this.result = result;
+    this.dataset.state = state;
+    this.dispatchEvent(new CustomEvent('railnote-result', { bubbles: true, detail: { state, result } }));
+  }
+
+  renderError(bad) {
+    this.status.textContent = '';
+    const n = bad.length;
+    const list = h('ul', { class: 'rn-error-list' });
+    for (const [f, msg] of bad) {
+      if (f) {
+        list.append(h('li', {},
+          h('button', { type: 'button', class: 'rn-linkish', on: { click: () => f.input.focus() } }, f.def.label),
+          ': ', msg));
+      } else list.append(h('li', {}, msg));
+    }
+    this.results.replaceChildren(
+      h('div', { class: 'rn-error-box' },
+        h('p', { class: 'rn-error-head' }, n === 1 ? 'One input needs fixing before the rail can be checked:' : `${n} inputs need fixing before the rail can be checked:`),
+        list));
+    this.announcer.announce(n === 1 ? `Input problem: ${bad[0][0] ? bad[0][0].def.label + ': ' : ''}${bad[0][1]}` : `${n} input problems.`);
+    this.finish('error', null);
+  }
+
+  fmt(v, kind, digits = 3) {
+    return formatWith(this.api, v, kind, digits);
+  }
+
+  renderResult(r) {
+    this.status.textContent = '';
+    const word = VERDICT_WORDS[r.verdict] || String(r.verdict);
+    const parts = [];
+
+    parts.push(h('div', { class: `rn-verdict rn-verdict-${r.verdict}`, 'data-verdict': r.verdict },
+      h('p', { class: 'rn-verdict-word' },
+        h('span', { class: 'rn-verdict-mark', 'aria-hidden': 'true' }, VERDICT_MARKS[r.verdict] || ''),
+        h('span', {}, word)),
+      h('p', { class: 'rn-summary' }, r.summary)));
+
+    if (r.suggestSwitching) {
+      parts.push(h('p', { class: 'rn-suggest' },
+        'Heat or efficiency is what limits this rail, so a switching regulator may suit it better. ',
+        'railnote’s switching estimate is a later calculator; until it arrives, compare by hand.'));
+    }
+
+    const checks = h('ul', { class: 'rn-checks' });
+    for (const c of r.checks || []) {
+      checks.append(h('li', { class: `rn-check rn-status-${c.status}`, 'data-check': c.id },
+        h('span', { class: 'rn-check-status' }, VERDICT_WORDS[c.status] || c.status),
+        h('span', { class: 'rn-check-title' }, c.title),
+        h('span', { class: 'rn-check-text' }, c.text)));
+    }
+    parts.push(h('section', { class: 'rn-block' }, h('h3', {}, 'Checks'), checks));
+
+    if (r.warnings && r.warnings.length) {
+      parts.push(h('section', { class: 'rn-block rn-warnings' }, h('h3', {}, 'Warnings'),
+        h('ul', {}, r.warnings.map((w) => h('li', {}, w)))));
+    }
+
+    parts.push(this.limitsBlock(r));
+    parts.push(this.cornersBlock(r));
+    parts.push(this.windowBlock(r));
+
+    const stamp = stampNow();
+    const link = this.currentLink();
+    let version = '';
+    try { version = this.api.version(); } catch { version = ''; }
+    parts.push(h('footer', { class: 'rn-record' },
+      h('p', {}, 'Link to this check: ', h('a', { href: link, class: 'rn-permalink' }, link)),
+      h('p', {}, 'Computed ', h('time', { datetime: stamp.iso }, stamp.text),
+        version ? ` with railnote ${version}` : '',
+        '. First-order estimate: verify against the datasheet and by measurement.')));
+
+    this.results.replaceChildren(...parts);
+    this.announcer.announce(`${word}. ${r.summary}`);
+    this.finish('ready', r);
+  }
+
+  limitsBlock(r) {
+    const L = r.limits || {};
+    const f = (v, k) => this.fmt(v, k);
+    const row = (dt, ...dd) => [h('dt', {}, dt), h('dd', {}, ...dd)];
+    const dl = h('dl', { class: 'rn-limits' },
+      row('Largest load that passes',
+        h('strong', { 'data-limit': 'maxLoadA' }, f(L.maxLoadA, 'current')),
+        `, bounded by ${BOUND_WORDS[L.maxLoadBy] || L.maxLoadBy}. `,
+        `Thermal: ${f(L.maxLoadThermalA, 'current')}; headroom: `,
+        L.maxLoadHeadroomA === null || L.maxLoadHeadroomA === undefined
+          ? 'not load-dependent with this dropout model'
+          : f(L.maxLoadHeadroomA, 'current'),
+        `; rating: ${f(r.window && r.window.ratedA, 'current')}.`),
+      row('Hottest ambient that passes at full load',
+        h('strong', { 'data-limit': 'hottestAmbientC' }, f(L.hottestAmbientC, 'temperature')),
+        ' (highest input, wanted thermal margin kept).'),
+      row('Smallest input that regulates at full load',
+        h('strong', { 'data-limit': 'vinMinRegulating' }, f(L.vinMinRegulating, 'voltage')),
+        ` at zero margin; ${f(L.vinMinWithMargin, 'voltage')} with the wanted headroom margin.`),
+      row('Highest input the junction allows at full load',
+        L.vinMaxThermal === null || L.vinMaxThermal === undefined
+          ? h('strong', { 'data-limit': 'vinMaxThermal' }, 'none: even the lowest input runs the junction too hot')
+          : h('strong', { 'data-limit': 'vinMaxThermal' }, f(L.vinMaxThermal, 'voltage')),
+        ' (hottest ambient, wanted thermal margin kept).'));
+    return h('section', { class: 'rn-block' }, h('h3', {}, 'Limits solved back from the inputs'), dl);
+  }
+
+  cornersBlock(r) {
+    const head = h('tr', {},
+      h('th', { scope: 'col' }, 'Input corner'),
+      h('th', { scope: 'col' }, 'Load'),
+      h('th', { scope: 'col' }, 'Dissipation'),
+      h('th', { scope: 'col' }, 'Efficiency'),
+      h('th', { scope: 'col' }, symbol('T', 'j'), ' at ', symbol('T', 'a,max')),
+      h('th', { scope: 'col' }, 'Thermal margin'),
+      h('th', { scope: 'col' }, 'Headroom at full load'),
+      h('th', { scope: 'col' }, 'Input current'));
+    const body = h('tbody');
+    const names = { min: 'min', nom: 'nom', max: 'max' };
+    for (const c of r.corners || []) {
+      for (const [i, load] of ['full', 'typ'].entries()) {
+        const p = c[load] || {};
+        const tr = h('tr', { 'data-corner': c.label, 'data-load': load });
+        if (i === 0) {
+          tr.append(h('th', { scope: 'rowgroup', rowspan: 2 }, symbol('V', `in,${names[c.label] || c.label}`), ' = ', this.fmt(c.vin, 'voltage')));
+        }
+        tr.append(
+          h('td', {}, `${load === 'full' ? 'full' : 'typical'} ${this.fmt(p.ioutA, 'current')}`),
+          h('td', { 'data-q': 'totalW' }, this.fmt(p.totalW, 'power')),
+          h('td', { 'data-q': 'efficiencyPct' }, this.fmt(p.efficiencyPct, 'percent')),
+          h('td', { 'data-q': 'tjC' }, this.fmt(p.tjC, 'temperature')),
+          h('td', { 'data-q': 'thermalMarginC' }, this.fmt(p.thermalMarginC, 'temperatureDifference')));
+        if (i === 0) tr.append(h('td', { rowspan: 2, 'data-q': 'headroomV' }, this.fmt(c.headroomV, 'voltage')));
+        tr.append(h('td', { 'data-q': 'inputA' }, this.fmt(p.inputA, 'current')));
+        body.append(tr);
+      }
+    }
+    const table = h('table', { class: 'rn-corners' },
+      h('caption', {}, 'At each input corner, nominal output, hottest ambient'),
+      h('thead', {}, head), body);
+    const w = r.worst || {};
+    const worst = h('p', { class: 'rn-worst' },
+      'Worst case: dissipation ', h('strong', { 'data-worst': 'powerW' }, this.fmt(w.powerW, 'power')),
+      ' (highest input, lowest output, full load), junction ', h('strong', { 'data-worst': 'tjC' }, this.fmt(w.tjC, 'temperature')),
+      ', thermal margin ', h('strong', { 'data-worst': 'thermalMarginC' }, this.fmt(w.thermalMarginC, 'temperatureDifference')),
+      '; headroom ', h('strong', { 'data-worst': 'headroomV' }, this.fmt(w.headroomV, 'voltage')),
+      ' over a dropout of ', this.fmt(w.dropoutV, 'voltage'),
+      ' (lowest input, highest output ', this.fmt(w.voutMax, 'voltage'), '); input current ',
+      h('strong', { 'data-worst': 'inputCurrentA' }, this.fmt(w.inputCurrentA, 'current')), '.');
+    const inner = [worst, h('div', { class: 'rn-table-scroll' }, table)];
+    if (this.hasAttribute('compact')) {
+      return h('section', { class: 'rn-block' }, h('details', {}, h('summary', {}, 'Worst case and input corners'), inner));
+    }
+    return h('section', { class: 'rn-block' }, h('h3', {}, 'Worst case and input corners'), inner);
+  }
+
+  windowBlock(r) {
+    const w = r.window;
+    if (!w) return null;
+    const api = this.api;
+    const fmtAxis = (kind) => (v) => formatWith(api, v, kind, 3);
+    const spanV = Math.abs(w.vinTo - w.vinFrom) || 1;
+    const far = spanV * 100;
+    const top = (w.ioutTo || 1) * 100;
+    const dropout = (w.dropout || []).slice();
+    const thermal = (w.thermal || []).slice().sort((a, b) => a[0] - b[0]);
+    const series = [];
+    // Shaded regions outside the window: left of dropout, above the thermal boundary, above the rating.
+    if (dropout.length >= 2) {
+      const lo = dropout[0];
+      const hi = dropout[dropout.length - 1];
+      series.push({ kind: 'area', tone: 1, legend: false, points: [...dropout, [hi[0] - far, hi[1]], [lo[0] - far, lo[1]]] });
+    }
+    if (thermal.length >= 2) {
+      series.push({ kind: 'area', tone: 2, legend: false, points: [...thermal, [thermal[thermal.length - 1][0] + far, thermal[thermal.length - 1][1]], [thermal[thermal.length - 1][0] + far, top], [thermal[0][0], top]] });
+    }
+    series.push({ kind: 'area', tone: 3, legend: false, points: [[w.vinFrom - far, w.ratedA], [w.vinTo + far, w.ratedA], [w.vinTo + far, top], [w.vinFrom - far, top]] });
+    series.push({ kind: 'line', tone: 1, dash: 'dashed', width: 2.5, points: dropout,
+      label: 'Dropout boundary (headroom = 0): the regulator regulates to the right of it' });
+    series.push({ kind: 'line', tone: 2, dash: 'solid', width: 2.5, points: thermal,
+      label: 'Thermal boundary (junction exactly at its limit, no margin, at the hottest ambient): cool enough below it' });
+    series.push({ kind: 'line', tone: 3, dash: 'dotted', width: 2.5, points: [[w.vinFrom - far, w.ratedA], [w.vinTo + far, w.ratedA]],
+      label: 'Current rating: within rating below it' });
+    series.push({ kind: 'line', tone: 4, dash: 'solid', width: 3, points: [[w.vinMin, 0], [w.vinMax, 0], [w.vinMax, w.ioutMax], [w.vinMin, w.ioutMax], [w.vinMin, 0]],
+      label: 'Operating box: lowest to highest input, up to the highest load' });
+    series.push({ kind: 'line', tone: 4, dash: 'dashdot', width: 2, points: [[w.vinMin, w.ioutTyp], [w.vinMax, w.ioutTyp]],
+      label: 'Typical load' });
+    series.push({ kind: 'marker', tone: 5, points: [[w.vinMin, w.ioutMax], [w.vinMax, w.ioutMax]],
+      label: 'Worst corners: lowest input for headroom, highest input for heat' });
+    const { svg, legend } = renderChart({
+      width: 640, height: 380,
+      title: 'Operating window of the linear rail',
+      description: `Input voltage from ${fmtAxis('voltage')(w.vinFrom)} to ${fmtAxis('voltage')(w.vinTo)} across, load current from 0 to ${fmtAxis('current')(w.ioutTo)} up. `
+        + `The operating box spans ${fmtAxis('voltage')(w.vinMin)} to ${fmtAxis('voltage')(w.vinMax)} and up to ${fmtAxis('current')(w.ioutMax)}. `
+        + `Verdict: ${VERDICT_WORDS[r.verdict] || r.verdict}.`,
+      x: { label: 'Input voltage V_in', domain: [w.vinFrom, w.vinTo], format: fmtAxis('voltage') },
+      y: { label: 'Load current I_out', domain: [0, w.ioutTo], format: fmtAxis('current') },
+      series,
+    });
+    return h('section', { class: 'rn-block rn-window' },
+      h('h3', {}, 'Operating window'),
+      h('figure', {}, svg,
+        h('figcaption', {},
+          'Shaded areas are outside the window: too little headroom (left), too hot (top right), over the rating (top). ',
+          'The rail is sound when the whole operating box sits in the clear area.', legend)));
+  }
+}
+
+if (!customElements.get('railnote-linear')) customElements.define('railnote-linear', RailnoteLinear);
