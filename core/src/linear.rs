@@ -749,7 +749,8 @@ impl ValidLinear {
                 .filter(|c| c.status == status)
                 .map(|c| c.title.as_str())
                 .collect();
-            names.join(", ").to_lowercase()
+            // The titles are ASCII; ASCII lowering keeps Unicode case tables out of the module.
+            names.join(", ").to_ascii_lowercase()
         };
         let summary = match verdict {
             Status::Pass => String::from("The rail passes every check in the worst case."),

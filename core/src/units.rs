@@ -362,19 +362,87 @@ fn scan_number(s: &str) -> Option<usize> {
     Some(i)
 }
 
-/// Turn the scanned number and a power of ten into a finite value, refusing overflow and
-/// underflow to zero.
+/// Powers of ten that an f64 holds exactly (10^22 is the last one: 5^22 < 2^53).
+const EXACT_POWERS_OF_TEN: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// Turn a scanned decimal number (sign, digits, point, digits, exponent: see [`scan_number`])
+/// and an extra power of ten into a finite value, refusing overflow and underflow to zero.
+///
+/// This is written here rather than calling `str::parse::<f64>` because core's parser brings
+/// about 15 KB of tables and code into the WebAssembly module, a quarter of railnote's size
+/// budget. When the digits fit 2^53 and the power of ten is at most 22 (every value anyone types
+/// into a rail check) the result is one correctly rounded multiplication or division of two
+/// exact values (Clinger's fast path, "How to read floating point numbers accurately", 1990),
+/// so it equals the correctly rounded parse. Beyond that it is within a few units in the last
+/// place, which no engineering input can notice.
 fn finite_value(number: &str, power: i32) -> Result<f64, ParseProblem> {
-    let mantissa: f64 = number.parse().map_err(|_| ParseProblem::NotANumber)?;
-    let value = mantissa * libm::pow(10.0, f64::from(power));
-    let has_nonzero_digit = number
-        .split(['e', 'E'])
-        .next()
-        .is_some_and(|m| m.bytes().any(|c| (b'1'..=b'9').contains(&c)));
-    if !value.is_finite() || (value == 0.0 && has_nonzero_digit) {
+    let (mantissa_text, exponent_text) = match number.find(['e', 'E']) {
+        Some(at) => (&number[..at], &number[at + 1..]),
+        None => (number, ""),
+    };
+    let (negative, digits) = match mantissa_text.as_bytes().first() {
+        Some(b'-') => (true, &mantissa_text[1..]),
+        Some(b'+') => (false, &mantissa_text[1..]),
+        _ => (false, mantissa_text),
+    };
+    let mut mantissa: u64 = 0;
+    let mut exponent: i64 = i64::from(power);
+    let mut significant = 0;
+    let mut after_point = false;
+    for c in digits.bytes() {
+        if c == b'.' {
+            after_point = true;
+            continue;
+        }
+        let d = u64::from(c - b'0');
+        if significant < 19 {
+            if mantissa > 0 || d > 0 {
+                significant += 1;
+            }
+            mantissa = mantissa * 10 + d;
+            if after_point {
+                exponent -= 1;
+            }
+        } else if !after_point {
+            // Digits past the 19th only scale the value.
+            exponent += 1;
+        }
+    }
+    if !exponent_text.is_empty() {
+        let (sign, body) = match exponent_text.as_bytes()[0] {
+            b'-' => (-1, &exponent_text[1..]),
+            b'+' => (1, &exponent_text[1..]),
+            _ => (1, exponent_text),
+        };
+        // Saturate: any exponent beyond a few hundred overflows or underflows anyway.
+        let mut e: i64 = 0;
+        for c in body.bytes() {
+            e = (e * 10 + i64::from(c - b'0')).min(100_000);
+        }
+        exponent += sign * e;
+    }
+    let magnitude = if mantissa == 0 {
+        0.0
+    } else if mantissa < (1 << 53) && exponent.abs() <= 22 {
+        let m = mantissa as f64;
+        let p = EXACT_POWERS_OF_TEN[exponent.unsigned_abs() as usize];
+        if exponent >= 0 {
+            m * p
+        } else {
+            m / p
+        }
+    } else {
+        let e = exponent.clamp(-1000, 1000) as f64;
+        // Split the power so that 10^e itself does not underflow before the multiplication.
+        (mantissa as f64) * libm::pow(10.0, e / 2.0) * libm::pow(10.0, e - e / 2.0)
+    };
+    if !magnitude.is_finite() || (magnitude == 0.0 && mantissa != 0) {
         return Err(ParseProblem::OutOfRange);
     }
-    Ok(value)
+    Ok(if negative { -magnitude } else { magnitude })
 }
 
 /// Which kind, if any, uses `unit` as a spelling.
@@ -468,6 +536,40 @@ fn parse_rkm(text: &str, kind: QuantityKind) -> Option<Result<f64, ParseProblem>
     Some(finite_value(&number, power))
 }
 
+/// Decimals that give `digits` significant figures for `magnitude` (> 0), and `magnitude`
+/// rounded to them, allowing for rounding up to the next power of ten (9.996 to 3 figures is
+/// "10.0", not "10.00").
+fn decimals_for(magnitude: f64, digits: u32) -> (usize, f64) {
+    let mut exponent = libm::floor(libm::log10(magnitude)) as i32;
+    let mut decimals = digits as i32 - 1 - exponent;
+    let scale = libm::pow(10.0, f64::from(decimals));
+    let rounded = libm::round(magnitude * scale) / scale;
+    // Rounding may carry into the next power of ten; then one decimal fewer is needed.
+    if rounded >= libm::pow(10.0, f64::from(exponent + 1)) {
+        exponent += 1;
+        decimals = digits as i32 - 1 - exponent;
+    }
+    (decimals.max(0) as usize, rounded)
+}
+
+/// Write a non-negative `value` with exactly `decimals` digits after the point.
+///
+/// Written with integer arithmetic instead of `format!("{:.*}")` because core's float
+/// formatting brings about 15 KB of code and tables into the WebAssembly module. The caller
+/// keeps `value · 10^decimals` below 10^15, where an f64 holds every integer exactly, so the
+/// only rounding is the one `libm::round` does.
+fn push_fixed(out: &mut String, value: f64, decimals: usize) {
+    use core::fmt::Write;
+    let scale = EXACT_POWERS_OF_TEN[decimals.min(22)];
+    let scaled = libm::round(value * scale) as u64;
+    let whole = scaled / scale as u64;
+    let _ = write!(out, "{whole}");
+    if decimals > 0 {
+        let fraction = scaled % scale as u64;
+        let _ = write!(out, ".{fraction:0decimals$}");
+    }
+}
+
 /// SI prefix symbols for powers of 1000 from femto to tera, as printed.
 const PRINT_PREFIXES: [(i32, &str); 10] = [
     (-15, "f"),
@@ -482,26 +584,11 @@ const PRINT_PREFIXES: [(i32, &str); 10] = [
     (12, "T"),
 ];
 
-/// Decimals that give `digits` significant figures for `magnitude` (> 0), allowing for rounding
-/// up to the next power of ten (9.996 to 3 figures is "10.0", not "10.00").
-fn decimals_for(magnitude: f64, digits: u32) -> (usize, f64) {
-    let mut exponent = libm::floor(libm::log10(magnitude)) as i32;
-    // Rounding may carry into the next power of ten; then one decimal fewer is needed.
-    let mut decimals = digits as i32 - 1 - exponent;
-    let scale = libm::pow(10.0, f64::from(decimals));
-    let rounded = libm::round(magnitude * scale) / scale;
-    if rounded >= libm::pow(10.0, f64::from(exponent + 1)) {
-        exponent += 1;
-        decimals = digits as i32 - 1 - exponent;
-    }
-    (decimals.max(0) as usize, rounded)
-}
-
 /// Write `value` of `kind` with `digits` significant figures (clamped to 1..=12) in engineering
 /// notation: `format_quantity(0.0123, QuantityKind::Current, 3)` is `"12.3 mA"`. A value that is
-/// not finite prints as an em dash, so nothing shows "NaN".
+/// not finite prints as an em dash, so nothing shows "NaN". Magnitudes beyond what the prefixes
+/// (or, for kinds without prefix, 10^15) cover are written with a power of ten, `1.2e18 °C`.
 pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
-    use core::fmt::Write;
     let digits = digits.clamp(1, 12);
     let mut out = String::new();
     if !value.is_finite() {
@@ -509,33 +596,49 @@ pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
         return out;
     }
     let symbol = kind.symbol();
-    if value == 0.0 {
-        let _ = write!(out, "0 {symbol}");
+    let magnitude = libm::fabs(value);
+    if magnitude == 0.0 {
+        out.push('0');
+    } else {
+        let (mut power, mut mantissa) = (0, magnitude);
+        if kind.takes_prefix() {
+            power = (libm::floor(libm::log10(magnitude) / 3.0) as i32 * 3).clamp(-15, 12);
+            mantissa = magnitude / libm::pow(10.0, f64::from(power));
+            if decimals_for(mantissa, digits).1 >= 1000.0 && power < 12 {
+                power += 3;
+                mantissa /= 1000.0;
+            }
+        }
+        let mut exponent = 0;
+        if mantissa >= 1e15 {
+            exponent = libm::floor(libm::log10(mantissa)) as i32;
+            mantissa /= libm::pow(10.0, f64::from(exponent));
+            if decimals_for(mantissa, digits).1 >= 10.0 {
+                exponent += 1;
+                mantissa /= 10.0;
+            }
+        }
+        let (decimals, rounded) = decimals_for(mantissa, digits);
+        // A value that rounds to zero at this precision is printed without a sign.
+        if value < 0.0 && rounded != 0.0 {
+            out.push('-');
+        }
+        push_fixed(&mut out, mantissa, decimals);
+        if exponent != 0 {
+            use core::fmt::Write;
+            let _ = write!(out, "e{exponent}");
+        }
+        let prefix = PRINT_PREFIXES
+            .iter()
+            .find(|(p, _)| *p == power)
+            .map_or("", |(_, s)| *s);
+        out.push(' ');
+        out.push_str(prefix);
+        out.push_str(symbol);
         return out;
     }
-    let magnitude = libm::fabs(value);
-    let (mut power, mut mantissa) = (0, magnitude);
-    if kind.takes_prefix() {
-        power = (libm::floor(libm::log10(magnitude) / 3.0) as i32 * 3).clamp(-15, 12);
-        mantissa = magnitude / libm::pow(10.0, f64::from(power));
-        let (_, rounded) = decimals_for(mantissa, digits);
-        if rounded >= 1000.0 && power < 12 {
-            power += 3;
-            mantissa /= 1000.0;
-        }
-    }
-    let (decimals, rounded) = decimals_for(mantissa, digits);
-    let prefix = PRINT_PREFIXES
-        .iter()
-        .find(|(p, _)| *p == power)
-        .map_or("", |(_, s)| *s);
-    // A value that rounds to zero at this precision is printed without a sign.
-    let sign = if value < 0.0 && rounded != 0.0 {
-        "-"
-    } else {
-        ""
-    };
-    let _ = write!(out, "{sign}{mantissa:.decimals$} {prefix}{symbol}");
+    out.push(' ');
+    out.push_str(symbol);
     out
 }
 

@@ -186,7 +186,11 @@ fn engineering_notation_output() {
         (f64::INFINITY, Voltage, 3, "—"),
     ];
     for &(value, kind, digits, want) in cases {
-        assert_eq!(format_quantity(value, kind, digits), want, "{value} {kind:?}");
+        assert_eq!(
+            format_quantity(value, kind, digits),
+            want,
+            "{value} {kind:?}"
+        );
     }
 }
 
@@ -206,7 +210,10 @@ fn formatted_values_read_back() {
     ] {
         let text = format_quantity(value, kind, 6);
         let back = parse_quantity(&text, kind).unwrap_or_else(|e| panic!("{text}: {e}"));
-        assert!(((back - value) / value).abs() < 1e-6, "{text} read back as {back}");
+        assert!(
+            ((back - value) / value).abs() < 1e-6,
+            "{text} read back as {back}"
+        );
     }
 }
 
