@@ -1,5 +1,141 @@
-//! `cargo xtask bench` (being written).
-use crate::util::Result;
+//! `cargo xtask bench`: figures, never pass/fail on time.
+//!
+//! 1. WASM size: after wasm-bindgen (before wasm-opt), after wasm-opt, and gzip -9.
+//! 2. In headless Chromium (tests/bench/browser.mjs): first-load weight of the linear page
+//!    (every response gzipped), navigation to the first result, and edit to painted result.
+//! 3. The same batch of linear checks natively (core/examples/bench_linear.rs) and in WASM under
+//!    Node (tests/bench/wasm_linear.mjs), printed as a ratio.
+
+use crate::util::{self, header, output, repo_root, run, Result};
+use crate::{
+    bindgen_size_record, build_site, cargo, linear_page, pkg_dir, server, site_dir, tools,
+};
+use std::fs;
+use std::process::Command;
+
+/// Checks per run of the native-vs-WASM comparison: about a tenth of a second natively.
+const LINEAR_CHECKS: &str = "20000";
+
 pub fn bench() -> Result {
-    Err("bench: not written yet".into())
+    tools::ensure_bench_tools()?;
+    build_site()?;
+    sizes()?;
+    browser()?;
+    native_vs_wasm()?;
+    println!();
+    println!("xtask bench: done (figures only; nothing here fails on time)");
+    Ok(())
+}
+
+fn sizes() -> Result {
+    header("bench 1/3: WASM size");
+    let record = bindgen_size_record();
+    let raw: u64 = fs::read_to_string(&record)
+        .ok()
+        .and_then(|s| s.trim().parse().ok())
+        .ok_or_else(|| format!("no size record at {}", record.display()))?;
+    let module = pkg_dir().join("railnote_bg.wasm");
+    let optimised = util::file_size(&module)?;
+    let gzip = util::gzip9_size(&module)?;
+    println!("after wasm-bindgen (before wasm-opt): {}", util::bytes(raw));
+    println!(
+        "after wasm-opt:                       {}",
+        util::bytes(optimised)
+    );
+    println!(
+        "after wasm-opt, gzip -9:              {}",
+        util::bytes(gzip)
+    );
+    Ok(())
+}
+
+fn browser() -> Result {
+    header("bench 2/3: linear page in headless Chromium");
+    let page = linear_page(&site_dir()).ok_or("site/ has no linear page to measure")?;
+    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
+    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
+    run(Command::new("node")
+        .arg("tests/bench/browser.mjs")
+        .arg(format!("http://{addr}/"))
+        .args([page, "50", "10"])
+        .current_dir(repo_root()))
+}
+
+fn native_vs_wasm() -> Result {
+    header("bench 3/3: the same batch of linear checks, native and WASM (Node)");
+    let native = output(cargo().current_dir(repo_root()).args([
+        "run",
+        "--quiet",
+        "--release",
+        "-p",
+        "railnote-core",
+        "--example",
+        "bench_linear",
+        "--",
+        LINEAR_CHECKS,
+    ]))?;
+    let wasm = output(
+        Command::new("node")
+            .args(["tests/bench/wasm_linear.mjs", LINEAR_CHECKS])
+            .current_dir(repo_root()),
+    )?;
+    let (native, wasm) = (last_line(&native), last_line(&wasm));
+    println!("native: {native}");
+    println!("wasm:   {wasm}");
+    let field = |line: &str, key: &str| {
+        json_number(line, key).ok_or_else(|| format!("no {key} in {line:?}"))
+    };
+    let (native_ns, wasm_ns) = (field(native, "nsPerCheck")?, field(wasm, "nsPerCheck")?);
+    let (native_sum, wasm_sum) = (field(native, "checksum")?, field(wasm, "checksum")?);
+    println!(
+        "per check: native {:.2} µs, WASM {:.2} µs: WASM takes {:.2}× the native time",
+        native_ns / 1000.0,
+        wasm_ns / 1000.0,
+        wasm_ns / native_ns
+    );
+    // Both sum the worst-case junction temperature over the batch; equal sums show equal inputs
+    // and equal arithmetic (both use libm).
+    if ((native_sum - wasm_sum) / native_sum).abs() < 1e-12 {
+        println!("checksums agree ({native_sum}): both ran the same batch");
+    } else {
+        println!(
+            "WARNING: checksums differ (native {native_sum}, WASM {wasm_sum}): not the same batch"
+        );
+    }
+    Ok(())
+}
+
+fn last_line(text: &str) -> &str {
+    text.lines()
+        .rev()
+        .find(|l| !l.trim().is_empty())
+        .unwrap_or("")
+        .trim()
+}
+
+/// The number after `"key":` in a one-line JSON object of plain numbers (enough for the bench
+/// scripts' output; xtask stays std-only).
+pub fn json_number(line: &str, key: &str) -> Option<f64> {
+    let needle = format!("\"{key}\":");
+    let start = line.find(&needle)? + needle.len();
+    let rest = line[start..].trim_start();
+    let end = rest.find([',', '}']).unwrap_or(rest.len());
+    rest[..end].trim().parse().ok()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn reads_numbers_from_the_bench_lines() {
+        let line = r#"{"runner":"wasm","n":20000,"totalNs":1.5e8,"nsPerCheck":7423.4,"checksum":2248363.36}"#;
+        assert_eq!(json_number(line, "n"), Some(20000.0));
+        assert_eq!(json_number(line, "totalNs"), Some(1.5e8));
+        assert_eq!(json_number(line, "nsPerCheck"), Some(7423.4));
+        assert_eq!(json_number(line, "checksum"), Some(2248363.36));
+        assert_eq!(json_number(line, "runner"), None);
+        assert_eq!(json_number(line, "missing"), None);
+        assert_eq!(last_line("a\nb\n\n"), "b");
+    }
 }

@@ -52,7 +52,13 @@ pub fn ensure_build_tools() -> Result {
     Ok(())
 }
 
-/// The tools `test` and `bench` need: the build tools plus rustfmt and the browser.
+/// The tools `bench` needs: the build tools plus the browser.
+pub fn ensure_bench_tools() -> Result {
+    ensure_system_packages()?;
+    ensure_build_tools()
+}
+
+/// The tools `test` needs: the build tools plus rustfmt, the browser and ngspice.
 pub fn ensure_test_tools() -> Result {
     ensure_system_packages()?;
     ensure_build_tools()?;

@@ -90,7 +90,6 @@ fn is_executable(path: &Path) -> bool {
         .unwrap_or(false)
 }
 
-#[allow(dead_code)] // used by bench (being written)
 /// Size of a gzip stream of `path` at level 9, from the system's `gzip` (always present on
 /// Debian). xtask stays std-only, so it does not carry a deflate implementation of its own.
 pub fn gzip9_size(path: &Path) -> Result<u64> {
