@@ -86,12 +86,27 @@ export function niceDomain(domain, target = 5) {
 /** Ticks at multiples of a nice step inside [lo, hi] (inclusive). */
 export function linearTicks(domain, target = 5) {
   const [lo, hi] = saneDomain(domain);
-  const step = niceStep(hi - lo, target);
+  let step = niceStep(hi - lo, target);
+  // On a domain that was not widened to the step (nice: false), rounding the step up can leave
+  // only two ticks inside; step down through the nice sequence (1 → 0.5 → 0.2 → 0.1) until at
+  // least three ticks fall inside, as a reader needs for interpolating.
+  for (let guard = 0; guard < 6 && countTicks(lo, hi, step) < 3; guard++) step = smallerNice(step);
   const first = Math.ceil(lo / step - 1e-9);
   const last = Math.floor(hi / step + 1e-9);
   const ticks = [];
   for (let i = first; i <= last && ticks.length < 1000; i++) ticks.push(clean(i * step));
   return ticks;
+}
+
+function countTicks(lo, hi, step) {
+  return Math.floor(hi / step + 1e-9) - Math.ceil(lo / step - 1e-9) + 1;
+}
+
+/** The next nice step below: 10 → 5 → 2 → 1 (× 10^n). */
+export function smallerNice(step) {
+  const power = Math.pow(10, Math.floor(Math.log10(step) + 1e-12));
+  const m = Math.round(step / power);
+  return clean(m >= 10 ? 5 * power : m >= 5 ? 2 * power : m >= 2 ? power : 0.5 * power);
 }
 
 /** Widen a positive domain to whole decades. */

@@ -20,8 +20,8 @@ import { renderChart } from './chart.js';
 
 /** Dropout models, as the WASM API names them. */
 const DROPOUT_MODELS = [
-  { value: 'resistive', label: 'MOS pass element: dropout scales with load current' },
-  { value: 'constant', label: 'bipolar pass element: roughly constant dropout' },
+  { value: 'resistive', label: 'MOS pass element (dropout scales with load)' },
+  { value: 'constant', label: 'bipolar pass element (roughly constant dropout)' },
   { value: 'classic', label: 'classic three-terminal (about 2 V, common practice)' },
 ];
 
@@ -450,8 +450,9 @@ export class RailnoteLinear extends HTMLElement {
       description: `Input voltage from ${fmtAxis('voltage')(w.vinFrom)} to ${fmtAxis('voltage')(w.vinTo)} across, load current from 0 to ${fmtAxis('current')(w.ioutTo)} up. `
         + `The operating box spans ${fmtAxis('voltage')(w.vinMin)} to ${fmtAxis('voltage')(w.vinMax)} and up to ${fmtAxis('current')(w.ioutMax)}. `
         + `Verdict: ${VERDICT_WORDS[r.verdict] || r.verdict}.`,
-      x: { label: 'Input voltage V_in', domain: [w.vinFrom, w.vinTo], format: fmtAxis('voltage') },
-      y: { label: 'Load current I_out', domain: [0, w.ioutTo], format: fmtAxis('current') },
+      // The axes keep the window's own extents (nice: false) so the boundaries reach the edges.
+      x: { label: 'Input voltage', domain: [w.vinFrom, w.vinTo], format: fmtAxis('voltage'), nice: false },
+      y: { label: 'Load current', domain: [0, w.ioutTo], format: fmtAxis('current'), nice: false },
       series,
     });
     return h('section', { class: 'rn-block rn-window' },

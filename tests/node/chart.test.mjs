@@ -60,6 +60,18 @@ test('worked example: the demo rail 4.85–5.15 V axis gets 4.8, 4.9, … 5.2', 
   assert.deepEqual(linearTicks([4.8, 5.2]), [4.8, 4.9, 5, 5.1, 5.2]);
 });
 
+test('a domain that is not widened still gets at least three nice ticks inside it', () => {
+  // The operating-window plot keeps its own extents; worked by hand for the demo rail's axis
+  // 3.234 … 5.9164 V: step 1 leaves only 4 and 5 inside, so the step drops to 0.5.
+  assert.deepEqual(linearTicks([3.234, 5.9164]), [3.5, 4, 4.5, 5, 5.5]);
+  for (const d of domains) {
+    const ticks = linearTicks(d);
+    assert.ok(ticks.length >= 3, `${ticks.length} ticks inside ${d}`);
+    assert.ok(ticks.every((t) => t >= d[0] - 1e-12 && t <= d[1] + 1e-12), `ticks ${ticks} inside ${d}`);
+    assert.ok(isNice(Number((ticks[1] - ticks[0]).toPrecision(12))), `nice step for ${d}`);
+  }
+});
+
 test('log ticks fall on decades and cover the widened domain', () => {
   for (const d of [[1e-3, 1], [2e-4, 0.7], [0.05, 3], [1, 1e6], [3e-6, 4e-6]]) {
     const ld = logDomain(d);

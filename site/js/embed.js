@@ -1,0 +1,33 @@
+// The iframe embed page: one calculator, compact, prefilled from the query (?calc=linear&vin-min=…).
+// Reports its height to the parent page so a host script can size the iframe; hosts that allow no
+// script give the iframe a fixed height (see linear.html#embed).
+import { h, reportEmbedHeight } from './common.js';
+
+const CALCULATORS = {
+  linear: { tag: 'railnote-linear', module: './linear-widget.js', title: 'Linear rail check' },
+};
+
+const root = document.getElementById('embed-root');
+const calc = new URLSearchParams(window.location.search).get('calc') || 'linear';
+const entry = Object.prototype.hasOwnProperty.call(CALCULATORS, calc) ? CALCULATORS[calc] : null;
+
+if (!entry) {
+  root.append(h('p', { class: 'rn-error-box' },
+    'This embed link names a calculator railnote does not have (“', calc.slice(0, 80), '”). ',
+    'Use calc=linear.'));
+  reportEmbedHeight(calc);
+} else {
+  document.title = `${entry.title} · railnote`;
+  root.append(h('h1', { class: 'rn-visually-hidden' }, entry.title));
+  const widget = document.createElement(entry.tag);
+  widget.setAttribute('sync-url', '');
+  widget.setAttribute('compact', '');
+  root.append(widget);
+  import(entry.module).then(
+    () => reportEmbedHeight(calc),
+    (err) => {
+      root.append(h('p', { class: 'rn-error-box' }, `The calculator could not load: ${err && err.message ? err.message : err}`));
+      reportEmbedHeight(calc);
+    },
+  );
+}
