@@ -195,13 +195,8 @@ fn ensure_wasm_bindgen() -> Result {
     );
     // No --locked: with it this install fails on the project's machines. --force replaces a
     // different version, or a tracked install whose binaries went missing.
-    let installed = run(Command::new("cargo").args([
-        "install",
-        "wasm-bindgen-cli",
-        "--version",
-        &want,
-        "--force",
-    ]));
+    let installed =
+        run(crate::cargo().args(["install", "wasm-bindgen-cli", "--version", &want, "--force"]));
     let after = (
         cli_version("wasm-bindgen"),
         cli_version("wasm-bindgen-test-runner"),
@@ -311,7 +306,7 @@ fn apt_install(packages: &[&str]) -> Result {
             .stdin(std::process::Stdio::null()))
     };
     apt(&["update"])?;
-    let mut args = vec!["install", "-y", "--no-install-recommends"];
+    let mut args = vec!["install", "-y"];
     args.extend_from_slice(packages);
     apt(&args).map_err(|e| {
         format!(
