@@ -37,7 +37,10 @@ fn set(value: &JsValue, key: &str, to: JsValue) {
 #[track_caller]
 fn thrown(result: Result<JsValue, JsValue>) -> (String, String) {
     let error = match result {
-        Ok(v) => panic!("the call should throw but returned {:?}", JSON::stringify(&v)),
+        Ok(v) => panic!(
+            "the call should throw but returned {:?}",
+            JSON::stringify(&v)
+        ),
         Err(e) => e,
     };
     let error: Error = error.dyn_into().expect("a real JS Error is thrown");
