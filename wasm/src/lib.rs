@@ -43,13 +43,15 @@ impl From<InputErrorJs> for JsValue {
 struct InputErrorJs(InputError);
 
 /// Deserialise a calculator's input object. serde_path_to_error keeps the path to the value
-/// that failed, so a wrong type, a missing or an unknown key is reported at its field.
+/// that failed, so a wrong type or a missing key is reported at its field; a key the input type
+/// does not have (a typo) is refused by [`refuse_unknown_keys`].
 fn read_input<T: DeserializeOwned>(value: JsValue) -> Result<T, JsValue> {
+    refuse_unknown_keys(&value, field_names::<T>())?;
     let deserializer = serde_wasm_bindgen::Deserializer::from(value);
     serde_path_to_error::deserialize(deserializer).map_err(|e| {
         let path = e.path().to_string();
         let inner = e.into_inner().to_string();
-        // A missing or unknown key fails at the object itself; serde names it in backticks.
+        // A missing key fails at the object itself; serde names it in backticks.
         let field = if path.is_empty() || path == "." {
             inner.split('`').nth(1).unwrap_or("input").to_string()
         } else {
@@ -57,6 +59,61 @@ fn read_input<T: DeserializeOwned>(value: JsValue) -> Result<T, JsValue> {
         };
         field_error(&field, &format!("{field}: {inner}"))
     })
+}
+
+/// serde-wasm-bindgen reads a struct by looking up its declared keys, so an unknown key would
+/// pass silently and a misspelt optional input would simply be ignored. Refuse it instead.
+fn refuse_unknown_keys(value: &JsValue, known: &[&str]) -> Result<(), JsValue> {
+    let Some(object) = value.dyn_ref::<js_sys::Object>() else {
+        return Ok(()); // Not an object: deserialisation reports that.
+    };
+    if known.is_empty() {
+        return Ok(());
+    }
+    for key in js_sys::Object::keys(object).iter() {
+        let key = key.as_string().unwrap_or_default();
+        if !known.contains(&key.as_str()) {
+            let shown: String = key.chars().take(40).collect();
+            return Err(field_error(
+                &shown,
+                &format!(
+                    "unknown input key `{shown}`; expected one of {}",
+                    known.join(", ")
+                ),
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// The keys a struct's derived Deserialize asks for. serde passes them to
+/// `deserialize_struct`; this deserializer only records them and stops.
+fn field_names<T: DeserializeOwned>() -> &'static [&'static str] {
+    use serde::de::{value::Error, Deserializer, Error as _, Visitor};
+    struct Fields<'a>(&'a mut &'static [&'static str]);
+    impl<'de> Deserializer<'de> for Fields<'_> {
+        type Error = Error;
+        fn deserialize_any<V: Visitor<'de>>(self, _: V) -> Result<V::Value, Error> {
+            Err(Error::custom("only struct field names are read"))
+        }
+        fn deserialize_struct<V: Visitor<'de>>(
+            self,
+            _: &'static str,
+            fields: &'static [&'static str],
+            _: V,
+        ) -> Result<V::Value, Error> {
+            *self.0 = fields;
+            Err(Error::custom("field names read"))
+        }
+        serde::forward_to_deserialize_any! {
+            bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string bytes byte_buf
+            option unit unit_struct newtype_struct seq tuple tuple_struct map enum identifier
+            ignored_any
+        }
+    }
+    let mut fields: &'static [&'static str] = &[];
+    let _ = T::deserialize(Fields(&mut fields));
+    fields
 }
 
 fn write_output<T: Serialize>(value: &T) -> Result<JsValue, JsValue> {

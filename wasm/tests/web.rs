@@ -110,12 +110,12 @@ fn bad_inputs_throw_errors_that_name_the_field() {
     Reflect::delete_property(input.unchecked_ref::<Object>(), &"vout".into()).unwrap();
     assert_eq!(thrown(check_linear(input)).0, "vout");
 
-    // FIXME: serde-wasm-bindgen reads a struct by looking up its declared keys, so an unknown
-    // key (a typo such as `effMinPc`) is ignored rather than refused by deny_unknown_fields.
-    // The fix is a key check in read_input against the struct's field list.
+    // A misspelt key is refused, not ignored.
     let input = demo_rail();
-    set(&input, "vinMn", 1.0.into());
-    assert!(check_linear(input).is_ok());
+    set(&input, "effMinPc", 1.0.into());
+    let (field, message) = thrown(check_linear(input));
+    assert_eq!(field, "effMinPc");
+    assert!(message.contains("effMinPct"), "{message}");
 
     let input = demo_rail();
     set(&input, "dropoutModel", "quantum".into());
