@@ -174,6 +174,10 @@ export class RailnoteLinear extends HTMLElement {
         h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
       this.announcer.region);
     if (this.hasAttribute('sync-url')) this.urlState = new UrlState(KEYS);
+    // Folded sections print open: a review record shows everything.
+    window.addEventListener('beforeprint', () => {
+      for (const d of this.querySelectorAll('details')) d.open = true;
+    });
   }
 
   hasAnyInitialAttribute() {
@@ -444,7 +448,29 @@ export class RailnoteLinear extends HTMLElement {
       label: 'Typical load' });
     series.push({ kind: 'marker', tone: 5, points: [[w.vinMin, w.ioutMax], [w.vinMax, w.ioutMax]],
       label: 'Worst corners: lowest input for headroom, highest input for heat' });
+    // Words inside the plot on the wrong side of each boundary, so the picture reads without
+    // the legend (and without colour).
+    const notes = [];
+    const yNote = w.ioutTo * 0.93;
+    if (dropout.length >= 2) notes.push({ x: w.vinFrom + 0.015 * spanV, y: yNote, text: 'drops out', anchor: 'start' });
+    // The thermal curve falls to the right, so its right end is the lowest point: label the
+    // region above it at the top right when the curve is below the label there.
+    if (thermal.length >= 2) {
+      const end = thermal[thermal.length - 1];
+      const y = end[1] < yNote * 0.95 ? yNote : (end[1] + w.ioutTo) / 2;
+      notes.push({ x: w.vinTo - 0.015 * spanV, y, text: 'too hot', anchor: 'end' });
+    }
+    if (w.ratedA < w.ioutTo * 0.9) {
+      const left = dropout.length ? dropout[dropout.length - 1][0] : w.vinFrom;
+      const right = thermal.length ? thermal[0][0] : w.vinTo;
+      // Only where there is room between the other two boundaries; the legend says it anyway.
+      if (right - left > 0.3 * spanV) {
+        notes.push({ x: (left + right) / 2, y: (w.ratedA + w.ioutTo) / 2 - w.ioutTo * 0.02, text: 'over the rating', anchor: 'middle' });
+      }
+    }
+    notes.push({ x: (w.vinMin + w.vinMax) / 2, y: w.ioutMax / 2, text: 'operating box', anchor: 'middle' });
     const { svg, legend } = renderChart({
+      notes,
       width: 640, height: 380,
       title: 'Operating window of the linear rail',
       description: `Input voltage from ${fmtAxis('voltage')(w.vinFrom)} to ${fmtAxis('voltage')(w.vinTo)} across, load current from 0 to ${fmtAxis('current')(w.ioutTo)} up. `

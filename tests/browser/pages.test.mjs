@@ -1,0 +1,128 @@
+// Every page: loads cleanly from its own origin only, shows the cautions, has no inline script or
+// handler, and the reference's link-key table matches the widget. Also screenshots linear.html in
+// light, dark and print (tests/out/, git-ignored) for a person to look at.
+import { test, before, after } from 'node:test';
+import assert from 'node:assert/strict';
+import path from 'node:path';
+import { launch, open, url, assertSameOrigin, settled, OUT_DIR } from './browser.mjs';
+
+const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'reference.html'];
+// The brief's cautions, in the words every page that can lead to hardware must carry.
+const CAUTION_PHRASES = [/first-order/i, /datasheet/i, /measurement/i, /burn/i, /60 V DC/, /mains/i, /local codes/i, /licensed practice/i];
+
+let browser;
+before(async () => { browser = await launch(); });
+after(async () => { await browser?.close(); });
+
+test('each page loads with status 200, no errors, nothing fetched from elsewhere', async () => {
+  const { context, page, requests, problems } = await open(browser);
+  const failed = [];
+  context.on('response', (r) => { if (r.status() >= 400) failed.push(`${r.status()} ${r.url()}`); });
+  for (const p of PAGES) {
+    const resp = await page.goto(url(p));
+    assert.equal(resp.status(), 200, p);
+    if (p.startsWith('linear') || p.startsWith('embed')) await settled(page, 'ready');
+    const info = await page.evaluate(() => ({
+      inline: [...document.scripts].filter((s) => !s.src).length,
+      handlers: [...document.querySelectorAll('*')].filter((el) => [...el.attributes].some((a) => /^on/i.test(a.name))).length,
+      title: document.title,
+      lang: document.documentElement.lang,
+      text: document.body.innerText,
+      links: [...document.querySelectorAll('a[href]')].map((a) => a.href).filter((h) => h.startsWith(location.origin)),
+    }));
+    assert.equal(info.inline, 0, `${p}: no inline scripts (a strict CSP comes later)`);
+    assert.equal(info.handlers, 0, `${p}: no inline event handlers`);
+    assert.ok(info.title.length > 5 && info.lang === 'en', `${p}: title and lang`);
+    if (p !== 'reference.html') {
+      for (const re of CAUTION_PHRASES) assert.match(info.text, re, `${p} shows the caution ${re}`);
+    }
+    // Internal links lead somewhere (checked without a browser navigation).
+    for (const href of new Set(info.links)) {
+      const target = href.split('#')[0];
+      const res = await page.request.get(target);
+      assert.equal(res.status(), 200, `${p} links to ${target}`);
+    }
+  }
+  assert.deepEqual(failed, [], 'no failed requests (favicon included)');
+  assert.deepEqual(problems, []);
+  assertSameOrigin(requests);
+  await context.close();
+});
+
+test('the reference lists exactly the widget\'s link keys, with their API names', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('reference.html'));
+  const table = await page.evaluate(() => [...document.querySelectorAll('#url-key-table tbody tr')].map((tr) => [
+    tr.cells[0].textContent.trim(), tr.cells[1].textContent.trim(),
+  ]));
+  const widget = await page.evaluate(async () => {
+    const m = await import('./js/linear-widget.js');
+    return m.FIELD_DEFS.map((d) => [d.key, d.prop]);
+  });
+  assert.deepEqual(table, widget);
+  // Every API input key of the contract appears in the reference's checkLinear input table.
+  const inputs = await page.evaluate(() => document.querySelector('#check-linear-input + .rn-table-scroll').textContent);
+  for (const [, prop] of widget) assert.ok(inputs.includes(prop), `reference documents ${prop}`);
+  await context.close();
+});
+
+test('keyboard: Tab reaches the fields with a visible focus ring, and Enter does not reload', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('linear.html'));
+  await settled(page, 'ready');
+  let focusedName = '';
+  for (let i = 0; i < 12 && focusedName !== 'vin-min'; i++) {
+    await page.keyboard.press('Tab');
+    focusedName = await page.evaluate(() => document.activeElement.getAttribute('name') || '');
+  }
+  assert.equal(focusedName, 'vin-min', 'the first field is reachable by keyboard');
+  const outline = await page.evaluate(() => getComputedStyle(document.activeElement).outlineStyle);
+  assert.notEqual(outline, 'none', 'focus is visible');
+  await page.keyboard.type('x');
+  await settled(page, 'error');
+  const before = page.url();
+  await page.keyboard.press('Enter');
+  await page.waitForTimeout(200);
+  assert.equal(await page.locator('railnote-linear').getAttribute('data-state'), 'error', 'still the same page state');
+  assert.equal(page.url().split('?')[0], before.split('?')[0]);
+  await context.close();
+});
+
+test('print shows inputs, verdict, link and date, and hides the buttons', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('linear.html?vout=3V3'));
+  await settled(page, 'ready');
+  await page.emulateMedia({ media: 'print' });
+  const seen = await page.evaluate(() => {
+    const visible = (sel) => [...document.querySelectorAll(sel)].some((e) => e.getClientRects().length > 0 && getComputedStyle(e).visibility !== 'hidden');
+    return {
+      buttons: visible('button'),
+      verdict: visible('.rn-verdict'),
+      link: visible('.rn-permalink'),
+      date: visible('.rn-record time'),
+      inputs: visible('.rn-field input'),
+      linkText: document.querySelector('.rn-permalink').textContent,
+    };
+  });
+  assert.equal(seen.buttons, false, 'no buttons in print');
+  assert.ok(seen.verdict && seen.link && seen.date && seen.inputs, JSON.stringify(seen));
+  assert.match(seen.linkText, /linear\.html\?.*vout=3V3/);
+  await page.screenshot({ path: path.join(OUT_DIR, 'linear-print.png'), fullPage: true });
+  await context.close();
+});
+
+test('screenshots of linear.html, light and dark (for looking at)', async () => {
+  for (const colorScheme of ['light', 'dark']) {
+    const { context, page, requests } = await open(browser, { colorScheme });
+    await page.goto(url('linear.html'));
+    await settled(page, 'ready');
+    const bg = await page.evaluate(() => getComputedStyle(document.documentElement).backgroundColor);
+    // The schemes differ: light paper is bright, dark is dark (sum of RGB channels).
+    const sum = bg.match(/\d+/g).slice(0, 3).map(Number).reduce((a, b) => a + b, 0);
+    assert.ok(colorScheme === 'light' ? sum > 600 : sum < 150, `${colorScheme} background ${bg}`);
+    await page.screenshot({ path: path.join(OUT_DIR, `linear-${colorScheme}.png`), fullPage: true });
+    await page.locator('railnote-linear').screenshot({ path: path.join(OUT_DIR, `linear-widget-${colorScheme}.png`) });
+    assertSameOrigin(requests);
+    await context.close();
+  }
+});
