@@ -1,8 +1,8 @@
 //! railnote-wasm: the JavaScript face of railnote-core, and nothing else.
 //!
 //! Each calculator crosses the boundary once: one exported function takes a plain object and
-//! returns a plain object (serde-wasm-bindgen, one JSON-compatible serializer for outputs so that
-//! absent values arrive as `null` and maps as plain objects). Every failure is a thrown JS
+//! returns a plain object (inputs read by [`input`], outputs written by serde-wasm-bindgen's
+//! JSON-compatible serializer so that absent values arrive as `null` and maps as plain objects). Every failure is a thrown JS
 //! `Error` built by [`field_error`]: its `message` is a sentence for the user and its `field`
 //! property names the input key it concerns, so a page can show the message at that field.
 //!
@@ -10,6 +10,8 @@
 //! error naming the field), then validated by core, then computed by core's infallible code.
 //! The optional `panic-hook` feature only helps debugging.
 #![forbid(unsafe_code)]
+
+mod input;
 
 use railnote_core::linear::LinearInput;
 use railnote_core::units::{self, QuantityKind};
@@ -42,78 +44,12 @@ impl From<InputErrorJs> for JsValue {
 /// Core's error, carried to JS.
 struct InputErrorJs(InputError);
 
-/// Deserialise a calculator's input object. serde_path_to_error keeps the path to the value
-/// that failed, so a wrong type or a missing key is reported at its field; a key the input type
-/// does not have (a typo) is refused by [`refuse_unknown_keys`].
+/// Read a calculator's input object; a failure becomes a field error.
 fn read_input<T: DeserializeOwned>(value: JsValue) -> Result<T, JsValue> {
-    refuse_unknown_keys(&value, field_names::<T>())?;
-    let deserializer = serde_wasm_bindgen::Deserializer::from(value);
-    serde_path_to_error::deserialize(deserializer).map_err(|e| {
-        let path = e.path().to_string();
-        let inner = e.into_inner().to_string();
-        // A missing key fails at the object itself; serde names it in backticks.
-        let field = if path.is_empty() || path == "." {
-            inner.split('`').nth(1).unwrap_or("input").to_string()
-        } else {
-            path
-        };
-        field_error(&field, &format!("{field}: {inner}"))
+    input::read(&value).map_err(|(field, message)| {
+        let field: String = field.chars().take(40).collect();
+        field_error(&field, &format!("{field}: {message}"))
     })
-}
-
-/// serde-wasm-bindgen reads a struct by looking up its declared keys, so an unknown key would
-/// pass silently and a misspelt optional input would simply be ignored. Refuse it instead.
-fn refuse_unknown_keys(value: &JsValue, known: &[&str]) -> Result<(), JsValue> {
-    let Some(object) = value.dyn_ref::<js_sys::Object>() else {
-        return Ok(()); // Not an object: deserialisation reports that.
-    };
-    if known.is_empty() {
-        return Ok(());
-    }
-    for key in js_sys::Object::keys(object).iter() {
-        let key = key.as_string().unwrap_or_default();
-        if !known.contains(&key.as_str()) {
-            let shown: String = key.chars().take(40).collect();
-            return Err(field_error(
-                &shown,
-                &format!(
-                    "unknown input key `{shown}`; expected one of {}",
-                    known.join(", ")
-                ),
-            ));
-        }
-    }
-    Ok(())
-}
-
-/// The keys a struct's derived Deserialize asks for. serde passes them to
-/// `deserialize_struct`; this deserializer only records them and stops.
-fn field_names<T: DeserializeOwned>() -> &'static [&'static str] {
-    use serde::de::{value::Error, Deserializer, Error as _, Visitor};
-    struct Fields<'a>(&'a mut &'static [&'static str]);
-    impl<'de> Deserializer<'de> for Fields<'_> {
-        type Error = Error;
-        fn deserialize_any<V: Visitor<'de>>(self, _: V) -> Result<V::Value, Error> {
-            Err(Error::custom("only struct field names are read"))
-        }
-        fn deserialize_struct<V: Visitor<'de>>(
-            self,
-            _: &'static str,
-            fields: &'static [&'static str],
-            _: V,
-        ) -> Result<V::Value, Error> {
-            *self.0 = fields;
-            Err(Error::custom("field names read"))
-        }
-        serde::forward_to_deserialize_any! {
-            bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string bytes byte_buf
-            option unit unit_struct newtype_struct seq tuple tuple_struct map enum identifier
-            ignored_any
-        }
-    }
-    let mut fields: &'static [&'static str] = &[];
-    let _ = T::deserialize(Fields(&mut fields));
-    fields
 }
 
 fn write_output<T: Serialize>(value: &T) -> Result<JsValue, JsValue> {
