@@ -13,8 +13,8 @@
 use core::fmt;
 use js_sys::{Array, Object};
 use serde::de::{
-    self, value::MapDeserializer, value::SeqDeserializer, DeserializeOwned, Deserializer, Expected,
-    IntoDeserializer, Unexpected, Visitor,
+    self, DeserializeOwned, DeserializeSeed, Deserializer, Expected, IntoDeserializer, MapAccess,
+    SeqAccess, Unexpected, Visitor,
 };
 use wasm_bindgen::{JsCast, JsValue};
 
@@ -87,14 +87,58 @@ impl Value {
     }
 }
 
-/// Why an input object could not be read. Its message never prints the offending value, only
-/// what kind of value it was.
+/// Why an input object could not be read, and where. Its message never prints the offending
+/// value, only what kind of value it was.
 #[derive(Debug)]
-pub struct InputReadError(String);
+pub struct InputReadError {
+    message: String,
+    /// Keys and list positions from the top, filled in as the error travels out.
+    path: Vec<PathStep>,
+}
+
+#[derive(Debug)]
+enum PathStep {
+    Key(String),
+    Index(usize),
+}
+
+impl InputReadError {
+    fn new(message: String) -> Self {
+        InputReadError {
+            message,
+            path: Vec::new(),
+        }
+    }
+
+    fn inside(mut self, step: PathStep) -> Self {
+        self.path.push(step);
+        self
+    }
+
+    /// `rails[2].name`, or `""` for the top level.
+    fn path(&self) -> String {
+        let mut out = String::new();
+        for step in self.path.iter().rev() {
+            match step {
+                PathStep::Key(k) if out.is_empty() => out.push_str(k),
+                PathStep::Key(k) => {
+                    out.push('.');
+                    out.push_str(k);
+                }
+                PathStep::Index(i) => {
+                    out.push('[');
+                    out.push_str(&i.to_string());
+                    out.push(']');
+                }
+            }
+        }
+        out
+    }
+}
 
 impl fmt::Display for InputReadError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        f.write_str(&self.0)
+        f.write_str(&self.message)
     }
 }
 
@@ -114,18 +158,18 @@ fn kind_of(unexpected: &Unexpected<'_>) -> &'static str {
 
 impl de::Error for InputReadError {
     fn custom<T: fmt::Display>(message: T) -> Self {
-        InputReadError(message.to_string())
+        InputReadError::new(message.to_string())
     }
 
     fn invalid_type(unexpected: Unexpected<'_>, expected: &dyn Expected) -> Self {
-        InputReadError(format!(
+        InputReadError::new(format!(
             "expected {expected}, found {}",
             kind_of(&unexpected)
         ))
     }
 
     fn invalid_value(unexpected: Unexpected<'_>, expected: &dyn Expected) -> Self {
-        InputReadError(format!(
+        InputReadError::new(format!(
             "expected {expected}, found {}",
             kind_of(&unexpected)
         ))
@@ -151,18 +195,13 @@ impl<'de> Deserializer<'de> for Value {
             Value::Number(n) if n.fract() == 0.0 && n.abs() < 9.0e15 => visitor.visit_i64(n as i64),
             Value::Number(n) => visitor.visit_f64(n),
             Value::Text(s) => visitor.visit_string(s),
-            Value::List(items) => {
-                let mut seq = SeqDeserializer::new(items.into_iter());
-                let out = visitor.visit_seq(&mut seq)?;
-                seq.end()?;
-                Ok(out)
-            }
-            Value::Object(entries) => {
-                let mut map = MapDeserializer::new(entries.into_iter());
-                let out = visitor.visit_map(&mut map)?;
-                map.end()?;
-                Ok(out)
-            }
+            Value::List(items) => visitor.visit_seq(ListAccess {
+                items: items.into_iter().enumerate(),
+            }),
+            Value::Object(entries) => visitor.visit_map(ObjectAccess {
+                entries: entries.into_iter(),
+                pending: None,
+            }),
             Value::Unsupported => Err(de::Error::custom(
                 "found a function, symbol or other value that no input takes",
             )),
@@ -200,15 +239,70 @@ impl<'de> Deserializer<'de> for Value {
     }
 }
 
-/// Deserialise `T` from a JS value. On failure, the key the failure concerns (from
-/// serde_path_to_error's path, or the key serde names for a missing or unknown field) and a
-/// sentence.
+/// Hands a list's items to a visitor, marking an error with the item's position.
+struct ListAccess {
+    items: core::iter::Enumerate<std::vec::IntoIter<Value>>,
+}
+
+impl<'de> SeqAccess<'de> for ListAccess {
+    type Error = InputReadError;
+
+    fn next_element_seed<T: DeserializeSeed<'de>>(
+        &mut self,
+        seed: T,
+    ) -> Result<Option<T::Value>, InputReadError> {
+        match self.items.next() {
+            Some((i, value)) => seed
+                .deserialize(value)
+                .map(Some)
+                .map_err(|e| e.inside(PathStep::Index(i))),
+            None => Ok(None),
+        }
+    }
+}
+
+/// Hands an object's entries to a visitor, marking an error with the entry's key.
+struct ObjectAccess {
+    entries: std::vec::IntoIter<(String, Value)>,
+    pending: Option<(String, Value)>,
+}
+
+impl<'de> MapAccess<'de> for ObjectAccess {
+    type Error = InputReadError;
+
+    fn next_key_seed<K: DeserializeSeed<'de>>(
+        &mut self,
+        seed: K,
+    ) -> Result<Option<K::Value>, InputReadError> {
+        let Some((key, value)) = self.entries.next() else {
+            return Ok(None);
+        };
+        let out = seed.deserialize(Value::Text(key.clone()))?;
+        self.pending = Some((key, value));
+        Ok(Some(out))
+    }
+
+    fn next_value_seed<V: DeserializeSeed<'de>>(
+        &mut self,
+        seed: V,
+    ) -> Result<V::Value, InputReadError> {
+        let (key, value) = self
+            .pending
+            .take()
+            .ok_or_else(|| <InputReadError as de::Error>::custom("a value without its key"))?;
+        seed.deserialize(value)
+            .map_err(|e| e.inside(PathStep::Key(key)))
+    }
+}
+
+/// Deserialise `T` from a JS value. On failure, the key the failure concerns (the path to the
+/// value, or the key serde names for a missing or unknown field) and a sentence.
 pub fn read<T: DeserializeOwned>(value: &JsValue) -> Result<T, (String, String)> {
-    serde_path_to_error::deserialize(Value::from_js(value)).map_err(|e| {
-        let path = e.path().to_string();
-        let inner = e.into_inner().to_string();
+    T::deserialize(Value::from_js(value)).map_err(|e| {
+        let path = e.path();
+        let inner = e.message;
         // A missing or unknown key fails at the object itself; serde names it in backticks.
-        let field = if path.is_empty() || path == "." {
+        let field = if path.is_empty() {
             inner.split('`').nth(1).unwrap_or("input").to_string()
         } else {
             path
