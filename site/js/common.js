@@ -171,7 +171,7 @@ export class UrlState {
     this.pending = null;
   }
 
-  /** Schedule writing these texts (Map key → text) into the URL. */
+  /** Schedule writing these texts (Map key → text) into the URL; this widget's other keys go. */
   write(texts) {
     this.pending = texts;
     clearTimeout(this.timer);
@@ -184,7 +184,11 @@ export class UrlState {
     this.timer = null;
     if (!this.pending) return;
     const params = new URLSearchParams(window.location.search);
-    for (const [k, v] of this.pending) params.set(k, v);
+    // Keys left out of `pending` (empty optional fields) are removed, so the link stays short.
+    for (const k of this.keys) {
+      if (this.pending.has(k)) params.set(k, this.pending.get(k));
+      else params.delete(k);
+    }
     this.pending = null;
     replaceSearch(params);
   }

@@ -135,9 +135,14 @@ export class RailnoteLinear extends HTMLElement {
     }
   }
 
-  /** The current text of every field, in field order. */
+  /**
+   * The current text of every field, in field order, as it goes into links: empty optional
+   * fields are left out (a missing key restores as empty, so the link means the same).
+   */
   texts() {
-    return new Map(this.fields.map((f) => [f.def.key, f.input.value]));
+    return new Map(this.fields
+      .filter((f) => !(f.def.optional && f.input.value === '' && this.initial.get(f.def.key) === ''))
+      .map((f) => [f.def.key, f.input.value]));
   }
 
   build() {

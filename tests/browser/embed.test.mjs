@@ -81,3 +81,40 @@ test('an embed link naming an unknown calculator says so, as text', async () => 
   assertSameOrigin(requests);
   await context.close();
 });
+
+test('two <railnote-linear> elements on one host page take their attributes and stay independent', async () => {
+  const { context, page, requests, problems } = await open(browser);
+  const hostUrl = url('made-up-host/two-rails.html');
+  // The demo's two regulators: the 3.3 V rail for the microcontroller and radio, and the 1.8 V
+  // sensor front-end rail at 40 mA (brief's invented scenario), both from the 5.0 V buck.
+  const body = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>two rails</title>
+<link rel="stylesheet" href="${url('css/railnote.css')}">
+<script type="module" src="${url('js/linear-widget.js')}"></script></head><body>
+<railnote-linear id="a" vin-min="4.7 V" iout-max="200 mA"></railnote-linear>
+<railnote-linear id="b" vout="1.8 V" iout-max="40 mA" iout-typ="10 mA" rated="150 mA"></railnote-linear>
+</body></html>`;
+  await page.route((u) => u.href.split('?')[0] === hostUrl, (route) => route.fulfill({ status: 200, contentType: 'text/html', body }));
+  await page.goto(`${hostUrl}?vin-min=1`);
+  await page.locator('#a[data-state="ready"]').waitFor();
+  await page.locator('#b[data-state="ready"]').waitFor();
+  const ra = await page.locator('#a').evaluate((el) => el.result);
+  const rb = await page.locator('#b').evaluate((el) => el.result);
+  // Without sync-url the page's query (vin-min=1) is ignored: the attributes rule.
+  close(ra.worst.headroomV, 1.134, 1e-9, 'rail a headroom, 4.7 − 3.366 − 0.2 V by hand');
+  // Rail b by hand: V_out,max = 1.836 V, V_do = 0.3·0.04/0.3 = 0.04 V → 4.85 − 1.836 − 0.04 = 2.974 V.
+  close(rb.worst.headroomV, 2.974, 1e-9, 'rail b headroom');
+  // Field ids are unique across the two widgets, so every label points at its own input.
+  const ids = await page.evaluate(() => [...document.querySelectorAll('[id]')].map((e) => e.id));
+  assert.equal(new Set(ids).size, ids.length, 'no duplicate ids');
+  // Setting an attribute recomputes that widget only.
+  await page.locator('#a').evaluate((el) => el.setAttribute('vin-min', '4.85 V'));
+  await page.waitForFunction(() => Math.abs(document.getElementById('a').result.worst.headroomV - 1.284) < 1e-9);
+  close((await page.locator('#b').evaluate((el) => el.result)).worst.headroomV, 2.974, 1e-9, 'rail b unchanged');
+  assert.equal(new URL(page.url()).searchParams.get('vin-min'), '1', 'the host URL is left alone');
+  // Reset goes back to the embedded attributes, not to the demo rail.
+  await page.locator('#a').getByRole('button', { name: /Reset/ }).click();
+  await page.waitForFunction(() => Math.abs(document.getElementById('a').result.worst.headroomV - 1.134) < 1e-9);
+  assert.deepEqual(problems, []);
+  assertSameOrigin(requests);
+  await context.close();
+});
