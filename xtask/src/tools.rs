@@ -76,13 +76,23 @@ pub fn is_root() -> bool {
 }
 
 fn ensure_node() -> Result {
-    if probe("node", &["--version"]).is_some() && probe("npm", &["--version"]).is_some() {
+    let node = || probe("node", &["--version"]).is_some();
+    let npm = || probe("npm", &["--version"]).is_some();
+    if node() && npm() {
         return Ok(());
     }
     if is_root() {
-        println!("node or npm is missing: installing Debian's nodejs and npm");
-        apt_install(&["nodejs", "npm"])?;
-        if probe("node", &["--version"]).is_some() && probe("npm", &["--version"]).is_some() {
+        // One package at a time: some Node builds for Debian ship npm inside `nodejs` and
+        // conflict with Debian's separate `npm` package.
+        if !node() {
+            println!("node is missing: installing Debian's nodejs");
+            apt_install(&["nodejs"])?;
+        }
+        if !npm() {
+            println!("npm is missing: installing Debian's npm");
+            apt_install(&["npm"])?;
+        }
+        if node() && npm() {
             return Ok(());
         }
     }
