@@ -74,18 +74,28 @@ try {
     await page.waitForFunction(() => window.__rnBench.painted !== null, null, { timeout: READY_TIMEOUT_MS });
     await page.waitForLoadState('networkidle');
     const state = await page.evaluate(() => window.__rnBench.state);
+    // One row per file: Chromium may ask twice for the same file (the favicon, say); a file
+    // weighs once in the first load.
     const rows = [];
+    const seen = new Map();
     for (const r of responses) {
       const u = r.url();
       if (!u.startsWith(origin)) problems.push(`request outside the site: ${u}`);
       if (r.status() >= 300 && r.status() < 400) continue; // a redirect carries no file
+      if (seen.has(u)) {
+        seen.get(u).times += 1;
+        continue;
+      }
       const body = await r.body();
-      rows.push({ path: u.slice(origin.length), status: r.status(), raw: body.length, gz: gzipSync(body, { level: 9 }).length });
+      const row = { path: u.slice(origin.length), status: r.status(), raw: body.length, gz: gzipSync(body, { level: 9 }).length, times: 1 };
+      seen.set(u, row);
+      rows.push(row);
     }
     rows.sort((a, b) => b.gz - a.gz);
     console.log(`first load of ${url} (widget state after load: ${state})`);
     for (const row of rows) {
-      console.log(`  ${String(row.gz).padStart(8)} B gzip  ${String(row.raw).padStart(8)} B raw  ${row.status}  ${row.path}`);
+      const again = row.times > 1 ? `  (requested ${row.times}×, counted once)` : '';
+      console.log(`  ${String(row.gz).padStart(8)} B gzip  ${String(row.raw).padStart(8)} B raw  ${row.status}  ${row.path}${again}`);
     }
     const raw = rows.reduce((a, r) => a + r.raw, 0);
     const gz = rows.reduce((a, r) => a + r.gz, 0);
