@@ -179,6 +179,15 @@ export class RailnoteLinear extends HTMLElement {
         h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
       this.announcer.region);
     if (this.hasAttribute('sync-url')) this.urlState = new UrlState(KEYS);
+    // Redraw for a new column width (debounced), so the chart text keeps its size.
+    let resizeTimer = null;
+    window.addEventListener('resize', () => {
+      clearTimeout(resizeTimer);
+      resizeTimer = setTimeout(() => {
+        const column = this.results.clientWidth;
+        if (this.result && this.chartWidth && Math.abs(Math.min(760, Math.max(340, column)) - this.chartWidth) > 40) this.renderResult(this.result);
+      }, 200);
+    });
     // Folded sections print open: a review record shows everything.
     window.addEventListener('beforeprint', () => {
       for (const d of this.querySelectorAll('details')) d.open = true;
@@ -474,9 +483,14 @@ export class RailnoteLinear extends HTMLElement {
       }
     }
     notes.push({ x: (w.vinMin + w.vinMax) / 2, y: w.ioutMax / 2, text: 'operating box', anchor: 'middle' });
+    // Size the drawing to the column it sits in, so its 12 px text stays 12 px on screen
+    // (an SVG scaled down from a fixed width would shrink its labels in narrow embeds).
+    const column = this.results.clientWidth || 640;
+    const width = Math.round(Math.min(760, Math.max(340, column)));
+    this.chartWidth = width;
     const { svg, legend } = renderChart({
       notes,
-      width: 640, height: 380,
+      width, height: Math.round(Math.min(400, Math.max(300, width * 0.6))),
       title: 'Operating window of the linear rail',
       description: `Input voltage from ${fmtAxis('voltage')(w.vinFrom)} to ${fmtAxis('voltage')(w.vinTo)} across, load current from 0 to ${fmtAxis('current')(w.ioutTo)} up. `
         + `The operating box spans ${fmtAxis('voltage')(w.vinMin)} to ${fmtAxis('voltage')(w.vinMax)} and up to ${fmtAxis('current')(w.ioutMax)}. `
