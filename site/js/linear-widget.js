@@ -248,8 +248,16 @@ export class RailnoteLinear extends HTMLElement {
       : 'Copying was refused here: the link is selected below, copy it with Ctrl+C (⌘C).';
   }
 
+  /** Mark the dropout fields the chosen model does not use (they keep their text for links). */
+  markUnused() {
+    const model = this.fields.find((f) => f.def.key === 'dropout-model').input.value;
+    const unused = { classic: ['dropout', 'dropout-at'], constant: ['dropout-at'] }[model] || [];
+    for (const f of this.fields) f.root.classList.toggle('rn-unused', unused.includes(f.def.key));
+  }
+
   compute() {
     const api = this.api;
+    this.markUnused();
     for (const f of this.fields) setFieldMessage(f, null);
     const { values, bad } = parseFields(api, this.fields);
     if (bad.length) {

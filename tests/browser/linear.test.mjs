@@ -331,3 +331,29 @@ test('every input and select has a label, a unit or note, and a message slot', a
   }
   await context.close();
 });
+
+test('if the engine cannot load, the widget says so instead of sitting dead', async () => {
+  const { context, page } = await open(browser);
+  await page.route((u) => u.pathname.endsWith('/pkg/railnote_bg.wasm'), (route) => route.fulfill({ status: 404, body: 'gone' }));
+  await page.goto(url('linear.html'));
+  await page.locator('railnote-linear[data-state="failed"]').waitFor();
+  assert.match(await page.locator('railnote-linear .rn-status').textContent(), /could not load/);
+  await context.close();
+});
+
+test('the dropout fields a model does not use are marked, and still go into the link', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('linear.html?dropout-model=classic&vin-min=6&vin-nom=7&vin-max=8'));
+  await settled(page, 'ready');
+  const unused = await page.locator('railnote-linear .rn-field.rn-unused').evaluateAll((els) => els.map((e) => e.dataset.key));
+  assert.deepEqual(unused, ['dropout', 'dropout-at']);
+  const r = await result(page);
+  // Classic three-terminal: a constant 2.0 V dropout (common practice), so the lowest regulating
+  // input is V_out,max + 2.0 V = 3.366 + 2.0 = 5.366 V, whatever the dropout field says.
+  close(r.limits.vinMinRegulating, 5.366, 1e-9, 'classic dropout');
+  assert.equal(r.limits.maxLoadHeadroomA, null, 'headroom does not depend on load with a constant dropout');
+  await field(page, 'dropout-model').selectOption('constant');
+  await settled(page, 'ready');
+  assert.deepEqual(await page.locator('railnote-linear .rn-field.rn-unused').evaluateAll((els) => els.map((e) => e.dataset.key)), ['dropout-at']);
+  await context.close();
+});
