@@ -357,3 +357,34 @@ test('the dropout fields a model does not use are marked, and still go into the 
   assert.deepEqual(await page.locator('railnote-linear .rn-field.rn-unused').evaluateAll((els) => els.map((e) => e.dataset.key)), ['dropout-at']);
   await context.close();
 });
+
+test('the operating window is an accessible SVG whose legend names every series in words', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('linear.html'));
+  await settled(page, 'ready');
+  const chart = await page.locator('railnote-linear .rn-window').evaluate((sec) => {
+    const svg = sec.querySelector('svg.rn-chart');
+    return {
+      role: svg.getAttribute('role'),
+      label: svg.getAttribute('aria-label'),
+      title: svg.querySelector('title')?.textContent,
+      desc: svg.querySelector('desc')?.textContent,
+      paths: [...svg.querySelectorAll('path')].map((p) => p.getAttribute('d')),
+      dashes: [...svg.querySelectorAll('path.rn-line')].map((p) => p.getAttribute('stroke-dasharray') || 'solid'),
+      legend: [...sec.querySelectorAll('.rn-legend li')].map((li) => li.textContent.trim()),
+      notes: [...svg.querySelectorAll('.rn-chart-notes text')].map((t) => t.textContent),
+      ticks: [...svg.querySelectorAll('.rn-chart-axes text')].map((t) => t.textContent),
+    };
+  });
+  assert.equal(chart.role, 'img');
+  assert.ok(chart.label && chart.title && chart.desc.includes('Verdict: Pass'), 'label, title and a description in words');
+  assert.ok(chart.paths.length >= 8 && chart.paths.every((d) => d && !/NaN|Infinity|undefined/.test(d)), 'finite path data');
+  assert.ok(new Set(chart.dashes).size >= 3, `boundaries differ by dash pattern, not only colour: ${chart.dashes}`);
+  assert.equal(chart.legend.length, 6);
+  assert.ok(chart.legend.some((t) => /dropout/i.test(t) && /right/i.test(t)), 'the legend says which side of dropout is OK');
+  assert.ok(chart.legend.some((t) => /thermal/i.test(t) && /below/i.test(t)), 'and which side of the thermal boundary');
+  assert.ok(chart.notes.includes('too hot') && chart.notes.includes('drops out'));
+  // Tick labels come from the engine's formatter (engineering notation with units).
+  assert.ok(chart.ticks.includes('5.00 V') && chart.ticks.includes('300 mA'), `tick labels ${chart.ticks}`);
+  await context.close();
+});
