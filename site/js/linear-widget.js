@@ -102,9 +102,11 @@ export class RailnoteLinear extends HTMLElement {
     this.result = null;
     this.reflecting = false;
     this.initial = new Map();
+    this.listening = null;
   }
 
   connectedCallback() {
+    if (!this.listening) this.listen();
     if (this.built) return;
     this.built = true;
     for (const d of FIELD_DEFS) this.initial.set(d.key, this.hasAttribute(d.key) ? this.getAttribute(d.key) : d.def);
@@ -132,6 +134,7 @@ export class RailnoteLinear extends HTMLElement {
     if (f.input.value !== text) {
       setFieldText(f, text);
       this.compute();
+      if (this.urlState) this.urlState.write(this.texts());
     }
   }
 
@@ -179,6 +182,12 @@ export class RailnoteLinear extends HTMLElement {
         h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
       this.announcer.region);
     if (this.hasAttribute('sync-url')) this.urlState = new UrlState(KEYS);
+  }
+
+  /** Window listeners live while the element is in the document. */
+  listen() {
+    this.listening = new AbortController();
+    const { signal } = this.listening;
     // Redraw for a new column width (debounced), so the chart text keeps its size.
     let resizeTimer = null;
     window.addEventListener('resize', () => {
@@ -187,11 +196,16 @@ export class RailnoteLinear extends HTMLElement {
         const column = this.results.clientWidth;
         if (this.result && this.chartWidth && Math.abs(Math.min(760, Math.max(340, column)) - this.chartWidth) > 40) this.renderResult(this.result);
       }, 200);
-    });
+    }, { signal });
     // Folded sections print open: a review record shows everything.
     window.addEventListener('beforeprint', () => {
       for (const d of this.querySelectorAll('details')) d.open = true;
-    });
+    }, { signal });
+  }
+
+  disconnectedCallback() {
+    if (this.listening) this.listening.abort();
+    this.listening = null;
   }
 
   hasAnyInitialAttribute() {
