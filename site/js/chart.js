@@ -23,10 +23,10 @@ const SVG_NS = 'http://www.w3.org/2000/svg';
 /** Dash patterns by name, in px. Distinct enough to tell apart in greyscale print. */
 export const DASHES = {
   solid: '',
-  dashed: '7 4',
+  dashed: '6 4',
   dotted: '1.5 3.5',
   dashdot: '9 3 2 3',
-  long: '14 5',
+  dashdotdot: '16 4 3 4 3 4',
 };
 
 /** Replace a degenerate or reversed domain with a usable one. Always returns finite [lo, hi], lo < hi. */
@@ -300,7 +300,7 @@ export function plainLabel(v) {
  *   x: { label, type: 'linear'|'log', domain: [lo, hi], format: v => string, nice: true },
  *   y: { … same … },
  *   series: [ { kind: 'line'|'area'|'marker', points: [[x, y], …], label, tone: 1..5,
- *               dash: 'solid'|'dashed'|'dotted'|'dashdot'|'long', width } ],
+ *               dash: 'solid'|'dashed'|'dotted'|'dashdot'|'dashdotdot', width } ],
  *   notes:  [ { x, y, text, anchor: 'start'|'middle'|'end' } ]   // labels placed in data space
  * }
  */

@@ -474,7 +474,7 @@ export class RailnoteLinear extends HTMLElement {
     series.push({ kind: 'area', tone: 3, legend: false, points: [[w.vinFrom - far, w.ratedA], [w.vinTo + far, w.ratedA], [w.vinTo + far, top], [w.vinFrom - far, top]] });
     series.push({ kind: 'line', tone: 1, dash: 'dashed', width: 2.5, points: dropout,
       label: 'Dropout boundary (headroom = 0): the regulator regulates to the right of it' });
-    series.push({ kind: 'line', tone: 2, dash: 'solid', width: 2.5, points: thermal,
+    series.push({ kind: 'line', tone: 2, dash: 'dashdotdot', width: 2.5, points: thermal,
       label: 'Thermal boundary (junction exactly at its limit, no margin, at the hottest ambient): cool enough below it' });
     series.push({ kind: 'line', tone: 3, dash: 'dotted', width: 2.5, points: [[w.vinFrom - far, w.ratedA], [w.vinTo + far, w.ratedA]],
       label: 'Current rating: within rating below it' });
