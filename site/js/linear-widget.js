@@ -385,8 +385,10 @@ export class RailnoteLinear extends HTMLElement {
         `, bounded by ${BOUND_WORDS[L.maxLoadBy] || L.maxLoadBy}. `,
         `Thermal: ${f(L.maxLoadThermalA, 'current')}; headroom: `,
         L.maxLoadHeadroomA === null || L.maxLoadHeadroomA === undefined
-          ? 'not load-dependent with this dropout model'
-          : f(L.maxLoadHeadroomA, 'current'),
+          ? 'no bound (with this dropout model headroom does not depend on load, and its margin is met)'
+          : L.maxLoadHeadroomA === 0
+            ? 'none (the headroom margin is not met at any load)'
+            : f(L.maxLoadHeadroomA, 'current'),
         `; rating: ${f(r.window && r.window.ratedA, 'current')}.`),
       row('Hottest ambient that passes at full load',
         h('strong', { 'data-limit': 'hottestAmbientC' }, f(L.hottestAmbientC, 'temperature')),
