@@ -156,3 +156,37 @@ test('the pages work under a strict Content-Security-Policy with Trusted Types',
   assertSameOrigin(requests);
   await context.close();
 });
+
+test('the shared chart module draws a log axis (as efficiency against load will need) in the browser', async () => {
+  const { context, page, problems } = await open(browser);
+  await page.goto(url('index.html'));
+  const seen = await page.evaluate(async () => {
+    const { renderChart } = await import('./js/chart.js');
+    const { svg, legend } = renderChart({
+      title: 'log test', description: 'a made-up efficiency curve against load',
+      x: { type: 'log', domain: [2e-3, 0.8], label: 'load' },
+      y: { domain: [40, 95], label: 'efficiency' },
+      series: [
+        { kind: 'line', dash: 'dashed', label: 'made-up curve', points: [[1e-3, 50], [0.01, 80], [0.1, 92], [1, 88]] },
+        { kind: 'area', tone: 2, label: 'region', points: [[1e-4, 0], [10, 0], [10, 60], [1e-4, 60]] },
+        { kind: 'marker', tone: 5, label: 'a point', points: [[0.05, 90], [0, 90]] },
+      ],
+    });
+    document.body.append(svg, legend);
+    return {
+      xTicks: [...svg.querySelectorAll('.rn-chart-axes text')].map((t) => t.textContent),
+      minor: svg.querySelectorAll('.rn-chart-grid line.rn-minor').length,
+      paths: [...svg.querySelectorAll('path')].map((p) => p.getAttribute('d')),
+      legend: [...legend.querySelectorAll('li')].map((li) => li.textContent),
+      box: svg.getBoundingClientRect().width,
+    };
+  });
+  // Decades 0.001 … 1 cover 2 mA … 0.8 A; labels from the default formatter.
+  for (const t of ['0.001', '0.01', '0.1', '1']) assert.ok(seen.xTicks.includes(t), `decade tick ${t} in ${seen.xTicks}`);
+  assert.ok(seen.minor >= 6, 'minor 2× and 5× lines over three decades');
+  assert.ok(seen.paths.length >= 3 && seen.paths.every((d) => d && !/NaN|Infinity/.test(d)), 'finite paths; the zero-load marker is dropped');
+  assert.deepEqual(seen.legend, ['made-up curve', 'region', 'a point']);
+  assert.ok(seen.box > 100);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
