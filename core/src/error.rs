@@ -42,8 +42,18 @@ pub(crate) mod check {
     /// calculators form finite, far beyond any board-level value.
     pub const LIMIT: f64 = 1.0e6;
 
+    /// A limit as a message shows it: up to four significant figures, without trailing zeros
+    /// ("0.001 K/W", not "0.001000 K/W"); limits are round numbers.
     pub fn show(value: f64, kind: QuantityKind) -> alloc::string::String {
-        format_quantity(value, kind, 4)
+        let text = format_quantity(value, kind, 4);
+        let Some((number, unit)) = text.split_once(' ') else {
+            return text;
+        };
+        if !number.contains('.') {
+            return text;
+        }
+        let number = number.trim_end_matches('0').trim_end_matches('.');
+        format!("{number} {unit}")
     }
 
     /// A finite number no larger in magnitude than [`LIMIT`].

@@ -254,6 +254,7 @@ pub struct Limits {
 pub struct Window {
     pub vin_from: f64,
     pub vin_to: f64,
+    /// The top of the current axis; the rating line may lie above it.
     pub iout_to: f64,
     /// Headroom = 0 at V_out,max: the rail regulates to the right of (below) this line.
     pub dropout: Vec<[f64; 2]>,
@@ -551,7 +552,9 @@ impl ValidLinear {
         if dropout_full * 1.1 > vin_to {
             vin_to = dropout_full * 1.1;
         }
-        let iout_to = 1.25 * x.rated_a.max(x.iout_max);
+        // Show the current rating when it is within a few times the load; a light load on a
+        // big regulator would otherwise be squashed against the axis.
+        let iout_to = 1.25 * x.iout_max.max(x.rated_a.min(4.0 * x.iout_max));
         let dropout = match x.dropout_model {
             DropoutModel::Resistive if x.dropout_v > 0.0 => {
                 let ohms = x.dropout_v / x.dropout_at_a;

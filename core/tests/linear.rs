@@ -288,7 +288,11 @@ fn bad_inputs_name_their_field() {
         ("dropoutV", |x| x.dropout_v = -0.1, "dropout"),
         ("dropoutAtA", |x| x.dropout_at_a = 0.0, "rated at"),
         ("ratedA", |x| x.rated_a = 0.0, "rated current"),
-        ("thetaJa", |x| x.theta_ja = -5.0, "θJA"),
+        (
+            "thetaJa",
+            |x| x.theta_ja = -5.0,
+            "θJA must not be below 0.001 K/W",
+        ),
         (
             "taMax",
             |x| x.ta_max = 130.0,
@@ -333,4 +337,20 @@ fn window_bounds_lie_on_their_limits() {
         assert!(vin >= w.vin_from && vin <= w.vin_to && iout >= 0.0 && iout <= w.iout_to);
     }
     assert_eq!(w.rated_a, 0.3);
+    // 1.25 × max(250 mA, min(300 mA, 4 × 250 mA)) = 375 mA: the rating line is on the plot.
+    assert!((w.iout_to - 0.375).abs() < 1e-12);
+}
+
+#[test]
+fn window_of_a_light_load_on_a_big_regulator_is_not_squashed() {
+    // 5 mA from a 1 A part: the axis runs to 1.25 × 4 × 5 mA = 25 mA, the rating above it.
+    let light = LinearInput {
+        iout_max: 0.005,
+        iout_typ: 0.001,
+        rated_a: 1.0,
+        ..demo_rail()
+    };
+    let report = check(&light, Status::Pass, &[], 0.0);
+    assert!((report.window.iout_to - 0.025).abs() < 1e-15);
+    assert!(report.window.rated_a > report.window.iout_to);
 }
