@@ -5,7 +5,10 @@
 //! - [`units`]: reading quantities as engineers type them (engineering notation, SI prefixes,
 //!   the IEC 60062 RKM code) and writing them back in engineering notation.
 //! - [`error`]: the one input error type, naming the field and the reason.
+//! - [`verdict`]: pass / marginal / fail, shared by every calculator.
 //! - [`linear`]: the linear rail check.
+//! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
+//!   derating, Foster-network transients and pulse trains.
 //!
 //! The crate is `no_std` with `alloc`, does no IO and knows nothing of JavaScript: the `wasm`
 //! crate is the only place that does. Every calculator validates its input into a checked type
@@ -21,6 +24,8 @@ extern crate std;
 
 pub mod error;
 pub mod linear;
+pub mod thermal;
 pub mod units;
+pub mod verdict;
 
 pub use error::InputError;

@@ -43,6 +43,8 @@
 
 use crate::error::{check, InputError};
 use crate::units::{format_quantity, QuantityKind};
+use crate::verdict::grade;
+pub use crate::verdict::Status;
 use alloc::format;
 use alloc::string::String;
 use alloc::vec::Vec;
@@ -106,26 +108,6 @@ pub struct LinearInput {
     /// The current the parent supply can give this rail, if it is limited.
     #[cfg_attr(feature = "serde", serde(default))]
     pub input_budget_a: Option<f64>,
-}
-
-/// Pass, marginal (works but misses a wanted margin) or fail.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
-pub enum Status {
-    Pass,
-    Marginal,
-    Fail,
-}
-
-impl Status {
-    pub fn word(self) -> &'static str {
-        match self {
-            Status::Pass => "pass",
-            Status::Marginal => "marginal",
-            Status::Fail => "fail",
-        }
-    }
 }
 
 /// Which check a [`Check`] reports.
@@ -803,16 +785,5 @@ impl ValidLinear {
             worst,
             limits,
         }
-    }
-}
-
-/// Fail below zero, marginal below the wanted margin, pass otherwise.
-fn grade(value: f64, wanted_margin: f64) -> Status {
-    if value < 0.0 {
-        Status::Fail
-    } else if value < wanted_margin {
-        Status::Marginal
-    } else {
-        Status::Pass
     }
 }

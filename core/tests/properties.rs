@@ -236,3 +236,60 @@ proptest! {
         }
     }
 }
+
+mod thermal {
+    use proptest::prelude::*;
+    use railnote_core::thermal::{pulse_train_rise, rise_series, zth, FosterStage, ProfileStep};
+
+    fn network() -> impl Strategy<Value = Vec<FosterStage>> {
+        prop::collection::vec(
+            (1e-3f64..100.0, 1e-6f64..100.0).prop_map(|(r, tau)| FosterStage { r, tau }),
+            1..=8,
+        )
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(1000))]
+
+        #[test]
+        fn zth_rises_towards_the_sum_of_resistances(net in network(), a in 1e-9f64..1e3, b in 1e-9f64..1e3) {
+            let (t1, t2) = if a < b { (a, b) } else { (b, a) };
+            let total: f64 = net.iter().map(|s| s.r).sum();
+            prop_assert!(zth(&net, t1) <= zth(&net, t2) + 1e-12 * total);
+            prop_assert!(zth(&net, t2) <= total * (1.0 + 1e-12));
+            prop_assert!(zth(&net, t1) >= 0.0);
+        }
+
+        #[test]
+        fn pulse_train_is_bounded_by_average_and_steady(
+            net in network(), p in 0.0f64..50.0, period in 1e-6f64..100.0, duty in 0.0f64..=1.0,
+        ) {
+            let on = (period * duty).max(1e-9).min(period);
+            let total: f64 = net.iter().map(|s| s.r).sum();
+            let (peak, valley) = pulse_train_rise(&net, p, on, period);
+            let average = p * on / period * total;
+            let slack = 1e-9 * (p * total).max(1e-12);
+            prop_assert!(valley <= average + slack, "valley {} > average {}", valley, average);
+            prop_assert!(average <= peak + slack, "average {} > peak {}", average, peak);
+            prop_assert!(peak <= p * total + slack);
+            // One pulse from cold never beats the settled train.
+            prop_assert!(p * zth(&net, on) <= peak + slack);
+        }
+
+        #[test]
+        fn stepping_never_overshoots_the_highest_power(
+            net in network(),
+            steps in prop::collection::vec((0.0f64..20.0, 1e-6f64..10.0), 1..8),
+            periods in 1u32..20,
+        ) {
+            let profile: Vec<ProfileStep> = steps.iter()
+                .map(|&(power_w, duration_s)| ProfileStep { power_w, duration_s }).collect();
+            let highest = steps.iter().map(|s| s.0).fold(0.0, f64::max);
+            let total: f64 = net.iter().map(|s| s.r).sum();
+            for [t, rise] in rise_series(&net, &profile, periods) {
+                prop_assert!(rise.is_finite() && t.is_finite());
+                prop_assert!(rise >= -1e-12 && rise <= highest * total * (1.0 + 1e-12));
+            }
+        }
+    }
+}

@@ -218,6 +218,24 @@ impl<'de> Deserializer<'de> for Value {
         }
     }
 
+    /// Structs are read from objects only. Without this the derived visitor's sequence form
+    /// (`visit_seq`, a struct written as a list) would be compiled in for every input type,
+    /// several KB each, for a spelling no caller uses.
+    fn deserialize_struct<V: Visitor<'de>>(
+        self,
+        _name: &'static str,
+        _fields: &'static [&'static str],
+        visitor: V,
+    ) -> Result<V::Value, InputReadError> {
+        match self {
+            Value::Object(entries) => visitor.visit_map(ObjectAccess {
+                entries: entries.into_iter(),
+                pending: None,
+            }),
+            other => Err(de::Error::invalid_type(other.unexpected(), &visitor)),
+        }
+    }
+
     fn deserialize_enum<V: Visitor<'de>>(
         self,
         _name: &'static str,
@@ -235,7 +253,7 @@ impl<'de> Deserializer<'de> for Value {
 
     serde::forward_to_deserialize_any! {
         bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string bytes byte_buf
-        unit unit_struct newtype_struct seq tuple tuple_struct map struct identifier ignored_any
+        unit unit_struct newtype_struct seq tuple tuple_struct map identifier ignored_any
     }
 }
 

@@ -14,6 +14,7 @@
 mod input;
 
 use railnote_core::linear::LinearInput;
+use railnote_core::thermal::ThermalInput;
 use railnote_core::units::{self, QuantityKind};
 use railnote_core::InputError;
 use serde::de::DeserializeOwned;
@@ -101,6 +102,15 @@ pub fn quantity_kinds() -> Vec<String> {
 pub fn check_linear(input: JsValue) -> Result<JsValue, JsValue> {
     let input: LinearInput = read_input(input)?;
     let report = railnote_core::linear::check(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// The thermal path: steady chain or θJA, measured-case estimates, heat-sink need, derating,
+/// Foster-network transients and pulse trains (fields in the site's reference page).
+#[wasm_bindgen(js_name = checkThermal)]
+pub fn check_thermal(input: JsValue) -> Result<JsValue, JsValue> {
+    let input: ThermalInput = read_input(input)?;
+    let report = railnote_core::thermal::check_thermal(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
 

@@ -140,3 +140,50 @@ fn quantities_cross_both_ways() {
     assert_eq!(format_quantity(f64::NAN, "voltage", 3).unwrap(), "—");
     assert!(quantity_kinds().iter().any(|k| k == "thermalResistance"));
 }
+
+/// The thermal demo (invented scenario: the logger's LDO with its radio bursts).
+fn thermal_demo() -> JsValue {
+    JSON::parse(
+        r#"{"powerW":0.49,"taMax":60,"taMin":-20,"tjMax":125,"marginC":15,"path":"ja",
+            "thetaJa":100,"psiJt":8,"caseTopC":95,
+            "foster":[{"r":2,"tau":0.001},{"r":8,"tau":0.01},{"r":25,"tau":0.1},{"r":65,"tau":2}],
+            "pulsePowerW":0.49,"pulseOnS":0.05,"pulsePeriodS":0.5}"#,
+    )
+    .expect("the thermal demo is valid JSON")
+}
+
+#[wasm_bindgen_test]
+fn check_thermal_crosses_with_lists_and_nulls() {
+    let report = railnote_wasm::check_thermal(thermal_demo()).expect("the demo computes");
+    assert_eq!(get(&report, "verdict").as_string().as_deref(), Some("pass"));
+    // 60 °C + 100 K/W × 0.49 W (JESD51-2A).
+    assert_eq!(get(&report, "steady.tjC").as_f64(), Some(109.0));
+    assert!(get(&report, "steady.thetaSaNeededKPerW").is_null());
+    assert!(get(&report, "measured.fromBoardC").is_null());
+    assert!(get(&report, "transient.series").is_instance_of::<Array>());
+    assert!(get(&report, "transient.pulse.trainPeakC")
+        .as_f64()
+        .is_some());
+}
+
+#[wasm_bindgen_test]
+fn thermal_errors_name_list_items() {
+    // A wrong type inside a list is named by its path, as the page's fields are.
+    let input = thermal_demo();
+    let stage = get(&input, "foster").dyn_into::<Array>().unwrap().get(2);
+    set(&stage, "tau", "100 ms".into());
+    let (field, message) = thrown(railnote_wasm::check_thermal(input));
+    assert_eq!(field, "foster[2].tau");
+    assert!(message.contains("found text"), "{message}");
+    // A value core refuses is named the same way.
+    let input = thermal_demo();
+    let stage = get(&input, "foster").dyn_into::<Array>().unwrap().get(1);
+    set(&stage, "tau", 0.0.into());
+    assert_eq!(
+        thrown(railnote_wasm::check_thermal(input)).0,
+        "foster[1].tau"
+    );
+    let input = thermal_demo();
+    set(&input, "path", "sideways".into());
+    assert_eq!(thrown(railnote_wasm::check_thermal(input)).0, "path");
+}
