@@ -87,6 +87,48 @@ export function buildField(def, prefix) {
   return { def, root, input, message };
 }
 
+/**
+ * Build repeated rows of fields (defs from rowFieldDefs) as a compact grid: a visible column
+ * heading per column, a row number, and per cell an input with its unit and its own message.
+ * Each input keeps a full label for screen readers ("Stage 2: thermal resistance R2").
+ * Returns { root, fields } with fields shaped as buildField's.
+ */
+export function buildFieldRows(defs, prefix, { caption, rowWord, columns }) {
+  const fields = [];
+  const head = h('div', { class: 'rn-rows-head', 'aria-hidden': 'true' },
+    h('span', {}, rowWord),
+    columns.map((c) => h('span', {}, c.sym ? symbol(c.sym[0], c.sym[1] ? c.sym[1] : 'i') : c.label, ` (${c.unit})`)));
+  const body = [];
+  const byRow = new Map();
+  for (const d of defs) {
+    if (!byRow.has(d.row.index)) byRow.set(d.row.index, []);
+    byRow.get(d.row.index).push(d);
+  }
+  for (const [index, rowDefs] of byRow) {
+    const cells = rowDefs.map((def) => {
+      const id = `${prefix}-${def.key}`;
+      const unitId = `${id}-unit`;
+      const msgId = `${id}-msg`;
+      const input = h('input', {
+        id, name: def.key, type: 'text', inputmode: 'text', autocomplete: 'off',
+        spellcheck: 'false', 'aria-describedby': `${unitId} ${msgId}`, size: 8,
+      });
+      const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
+      const root = h('div', { class: 'rn-field rn-cell', 'data-key': def.key },
+        h('label', { for: id, class: 'rn-visually-hidden' }, def.label),
+        h('span', { class: 'rn-control' }, input, h('span', { class: 'rn-unit', id: unitId }, def.unit)),
+        message);
+      const f = { def, root, input, message };
+      fields.push(f);
+      return root;
+    });
+    body.push(h('div', { class: 'rn-row', 'data-row': index + 1 },
+      h('span', { class: 'rn-row-label', 'aria-hidden': 'true' }, String(index + 1)), cells));
+  }
+  const root = h('div', { class: 'rn-rows', role: 'group', 'aria-label': caption }, head, body);
+  return { root, fields };
+}
+
 /** Show (or, with null, clear) the message at a field. */
 export function setFieldMessage(field, text) {
   field.message.textContent = text || '';
@@ -102,29 +144,112 @@ export function errorText(err) {
 }
 
 /**
+ * Repeated rows of fields (the stages of a Foster network, the steps of a power profile): the
+ * field definitions of `count` rows, each with the given columns. Column n of row i has the key
+ * `${column.key}${i + 1}` (r1, tau1, …) and def.row = { list, index: i, prop }, so parseFields
+ * puts the row into values[list] as { [prop]: number } and an API error named `list[k].prop`
+ * can be led back to its field. Row fields are optional: a row left empty is left out.
+ */
+export function rowFieldDefs(list, count, columns, rowWord) {
+  const defs = [];
+  for (let i = 0; i < count; i++) {
+    for (const c of columns) {
+      defs.push({
+        ...c, key: `${c.key}${i + 1}`, optional: true, def: c.defaults ? (c.defaults[i] ?? '') : '',
+        label: `${rowWord} ${i + 1}: ${c.label}`, sym: c.sym ? [c.sym[0], `${c.sym[1] || ''}${i + 1}`] : null,
+        apiName: `${list}[].${c.prop}`, row: { list, index: i, prop: c.prop },
+      });
+    }
+  }
+  return defs;
+}
+
+/**
  * Read each field's text and turn it into a number through the WASM parser.
  * Selects must hold one of their options. Empty optional fields are left out (undefined).
- * Returns { values: {prop: number|string}, bad: [[field, message]] }.
+ * Fields for which `skip(field)` is true (a path that does not use them) are not read.
+ * Row fields (see rowFieldDefs) are gathered per list, in row order, leaving out empty rows; a
+ * row filled in only partly gets a message at its empty cell.
+ * Returns { values: {prop: number|string, list: [{…}]}, bad: [[field, message]],
+ *           rows: {list: [row index of each entry]} } (rows leads an API error back to a field).
  */
-export function parseFields(api, fields) {
+export function parseFields(api, fields, { skip } = {}) {
   const values = {};
   const bad = [];
+  const rows = {};
+  const rowCells = new Map();
+  const read = (f) => {
+    try {
+      return { ok: true, value: api.parseQuantity(f.input.value, f.def.kind) };
+    } catch (err) {
+      bad.push([f, errorText(err)]);
+      return { ok: false };
+    }
+  };
   for (const f of fields) {
     const { def } = f;
+    if (skip && skip(f)) continue;
+    if (def.row) {
+      const byRow = rowCells.get(def.row.list) || new Map();
+      rowCells.set(def.row.list, byRow);
+      if (!byRow.has(def.row.index)) byRow.set(def.row.index, []);
+      byRow.get(def.row.index).push(f);
+      continue;
+    }
     const text = f.input.value;
     if (def.type === 'select') {
       if (def.options.some((o) => o.value === text)) values[def.prop] = text;
-      else bad.push([f, 'choose one of the listed models.']);
+      else bad.push([f, def.choiceMessage || 'choose one of the listed models.']);
       continue;
     }
     if (def.optional && text.trim() === '') continue;
-    try {
-      values[def.prop] = api.parseQuantity(text, def.kind);
-    } catch (err) {
-      bad.push([f, errorText(err)]);
+    const r = read(f);
+    if (r.ok) values[def.prop] = r.value;
+  }
+  for (const [list, byRow] of rowCells) {
+    values[list] = [];
+    rows[list] = [];
+    for (const index of [...byRow.keys()].sort((a, b) => a - b)) {
+      const cells = byRow.get(index);
+      if (cells.every((f) => f.input.value.trim() === '')) continue;
+      const entry = {};
+      let complete = true;
+      for (const f of cells) {
+        if (f.input.value.trim() === '') {
+          bad.push([f, 'fill in this value too, or clear the whole row.']);
+          complete = false;
+          continue;
+        }
+        const r = read(f);
+        if (r.ok) entry[f.def.row.prop] = r.value;
+        else complete = false;
+      }
+      if (complete) {
+        values[list].push(entry);
+        rows[list].push(index);
+      }
     }
   }
-  return { values, bad };
+  return { values, bad, rows };
+}
+
+/**
+ * The field an API error names: a top-level key (`thetaJc`) or an entry of a list
+ * (`foster[2].tau`, led back through `rows` to the row it came from; `foster` alone: the first
+ * row). Null when no field matches.
+ */
+export function fieldForError(fields, name, rows = {}) {
+  if (typeof name !== 'string') return null;
+  const m = /^(\w+)(?:\[(\d+)\])?(?:\.(\w+))?$/.exec(name);
+  if (!m) return null;
+  const [, list, k, prop] = m;
+  const inList = fields.filter((f) => f.def.row && f.def.row.list === list);
+  if (inList.length) {
+    const index = k === undefined ? 0 : (rows[list] || [])[Number(k)];
+    const row = inList.filter((f) => f.def.row.index === (index === undefined ? 0 : index));
+    return row.find((f) => f.def.row.prop === prop) || row[0] || inList[0];
+  }
+  return fields.find((f) => !f.def.row && f.def.prop === name) || null;
 }
 
 /**
@@ -298,4 +423,345 @@ export function formatWith(api, value, kind, digits = 3) {
 export function stampNow(date = new Date()) {
   const iso = date.toISOString();
   return { iso, text: `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC` };
+}
+
+export const VERDICT_WORDS = { pass: 'Pass', marginal: 'Marginal', fail: 'Fail' };
+const VERDICT_MARKS = { pass: '✓', marginal: '!', fail: '✗' };
+
+/**
+ * What every calculator element does, so each widget file only says what is its own: its
+ * fields, how its input object is made, which API function it calls and how its result is laid
+ * out.
+ *
+ * A subclass defines `static spec` = {
+ *   name,                  // 'linear': the embed's calc= name and the id prefix
+ *   engine,                // the engine's `ready` promise (passed in so this module loads no wasm)
+ *   groups,                // [{ title, fields: [defs] , rows?: { caption, rowWord, columns } }]
+ *   page,                  // absolute URL of the calculator's full page (links point there)
+ *   inputsLabel, resultsLabel, demoWords ('the demo rail'), subjectWords ('the rail')
+ * }
+ * and the methods run(api, values) → report (throws the API's errors), resultParts(report) →
+ * nodes between the verdict and the record, and optionally skipField(field) (fields the current
+ * choices do not use: not read, not sent) and beforeCompute() (mark or hide those fields).
+ *
+ * Its state is its attributes: each field has an attribute of the same name as its link key,
+ * which prefills it and is kept up to date as the user types. With `sync-url` the same names are
+ * the page's query keys, holding the raw typed text. `compact` folds long tables (embeds).
+ * After every render the element sets data-state ("ready", "error", or "failed" when the engine
+ * could not load) and dispatches a bubbling `railnote-result` CustomEvent whose detail is
+ * { state, result } (result is null unless state is "ready").
+ */
+export class CalculatorElement extends HTMLElement {
+  static get fieldDefs() {
+    return this.spec.groups.flatMap((g) => g.fields);
+  }
+
+  static get observedAttributes() {
+    return this.fieldDefs.map((d) => d.key);
+  }
+
+  constructor() {
+    super();
+    this.spec = this.constructor.spec;
+    this.defs = this.constructor.fieldDefs;
+    this.keys = this.defs.map((d) => d.key);
+    this.built = false;
+    this.api = null;
+    this.fields = [];
+    this.result = null;
+    this.rows = {};
+    this.reflecting = false;
+    this.initial = new Map();
+    this.listening = null;
+  }
+
+  connectedCallback() {
+    if (!this.listening) this.listen();
+    if (this.built) return;
+    this.built = true;
+    for (const d of this.defs) this.initial.set(d.key, this.hasAttribute(d.key) ? this.getAttribute(d.key) : d.def);
+    this.dataset.state = 'loading';
+    this.build();
+    this.spec.engine.then(
+      (api) => {
+        this.api = api;
+        this.restore();
+        this.compute();
+      },
+      (err) => {
+        this.dataset.state = 'failed';
+        this.status.textContent = `The calculation engine could not load (${errorText(err)}). Reload the page; if it persists, the site's pkg/ folder is missing or damaged.`;
+        this.dispatchEvent(new CustomEvent('railnote-result', { bubbles: true, detail: { state: 'failed', result: null } }));
+      },
+    );
+  }
+
+  attributeChangedCallback(name, _old, value) {
+    if (this.reflecting || !this.built || !this.api) return;
+    const f = this.fields.find((x) => x.def.key === name);
+    if (!f) return;
+    const text = value === null ? f.def.def : value;
+    if (f.input.value !== text) {
+      setFieldText(f, text);
+      this.compute();
+      if (this.urlState) this.urlState.write(this.texts());
+    }
+  }
+
+  /**
+   * The current text of every field, in field order, as it goes into links: empty optional
+   * fields are left out when their default is empty too (a missing key restores as empty, so
+   * the link means the same); an emptied field whose default is not empty stays, as key=.
+   */
+  texts() {
+    return new Map(this.fields
+      .filter((f) => !(f.def.optional && f.input.value === '' && this.initial.get(f.def.key) === ''))
+      .map((f) => [f.def.key, f.input.value]));
+  }
+
+  build() {
+    const prefix = uniquePrefix(`rn-${this.spec.name.slice(0, 3)}`);
+    this.classList.add('rn-widget');
+    const form = h('form', { class: 'rn-inputs', novalidate: true, 'aria-label': this.spec.inputsLabel });
+    form.addEventListener('submit', (e) => e.preventDefault());
+    for (const g of this.spec.groups) {
+      const fs = h('fieldset', { class: 'rn-group', 'data-group': g.id || null }, h('legend', {}, g.title));
+      if (g.note) fs.append(h('p', { class: 'rn-group-note' }, g.note));
+      if (g.rows) {
+        const { root, fields } = buildFieldRows(g.fields, prefix, g.rows);
+        this.fields.push(...fields);
+        fs.append(root);
+      } else {
+        for (const d of g.fields) {
+          const f = buildField(d, prefix);
+          this.fields.push(f);
+          fs.append(f.root);
+        }
+      }
+      form.append(fs);
+    }
+    form.addEventListener('input', (e) => this.onEdit(e));
+    form.addEventListener('change', (e) => this.onEdit(e));
+
+    this.linkField = h('input', { type: 'text', readonly: true, class: 'rn-link-fallback', hidden: true, 'aria-label': 'Link to this check' });
+    this.toolStatus = h('span', { class: 'rn-tool-status', role: 'status' });
+    const tools = h('div', { class: 'rn-tools' },
+      h('button', { type: 'button', class: 'rn-copy', on: { click: () => this.copyLink() } }, 'Copy link'),
+      h('button', { type: 'button', class: 'rn-reset', on: { click: () => this.reset() } }, 'Reset to ' + (this.hasAnyInitialAttribute() ? 'the embedded values' : this.spec.demoWords)),
+      this.toolStatus, this.linkField);
+
+    this.status = h('p', { class: 'rn-status', text: 'Loading the calculation engine…' });
+    this.announcer = createAnnouncer();
+    this.results = h('section', { class: 'rn-results', 'aria-label': this.spec.resultsLabel });
+
+    this.append(
+      h('div', { class: 'rn-sheet' },
+        h('div', { class: 'rn-sheet-inputs' }, form, tools),
+        h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
+      this.announcer.region);
+    if (this.hasAttribute('sync-url')) this.urlState = new UrlState(this.keys);
+  }
+
+  /** Window listeners live while the element is in the document. */
+  listen() {
+    this.listening = new AbortController();
+    const { signal } = this.listening;
+    // Redraw for a new column width (debounced), so the chart text keeps its size.
+    let resizeTimer = null;
+    window.addEventListener('resize', () => {
+      clearTimeout(resizeTimer);
+      resizeTimer = setTimeout(() => {
+        if (this.result && this.chartWidth && Math.abs(this.columnWidth() - this.chartWidth) > 40) this.renderResult(this.result);
+      }, 200);
+    }, { signal });
+    // Folded sections print open: a review record shows everything.
+    window.addEventListener('beforeprint', () => {
+      for (const d of this.querySelectorAll('details')) d.open = true;
+    }, { signal });
+  }
+
+  disconnectedCallback() {
+    if (this.listening) this.listening.abort();
+    this.listening = null;
+  }
+
+  /**
+   * The width to draw charts at: the results column, within 340–760 px, so chart text keeps its
+   * 12 px on screen (an SVG scaled down from a fixed width would shrink its labels in embeds).
+   */
+  columnWidth() {
+    const column = this.results.clientWidth || 640;
+    return Math.round(Math.min(760, Math.max(340, column)));
+  }
+
+  hasAnyInitialAttribute() {
+    return this.defs.some((d) => this.hasAttribute(d.key));
+  }
+
+  /** Fill the fields from attributes, then (with sync-url) from the page URL, exactly as given. */
+  restore() {
+    const fromUrl = this.urlState ? readQuery(this.keys) : new Map();
+    for (const f of this.fields) {
+      const k = f.def.key;
+      setFieldText(f, fromUrl.has(k) ? fromUrl.get(k) : this.initial.get(k));
+    }
+    this.reflectAll();
+  }
+
+  reflectAll() {
+    this.reflecting = true;
+    for (const f of this.fields) this.setAttribute(f.def.key, f.input.value);
+    this.reflecting = false;
+  }
+
+  onEdit(e) {
+    const f = this.fields.find((x) => x.input === e.target);
+    if (!f || !this.api) return;
+    if (f.def.type === 'select' && f.input.value !== '') setFieldText(f, f.input.value);
+    this.reflecting = true;
+    this.setAttribute(f.def.key, f.input.value);
+    this.reflecting = false;
+    this.compute();
+    if (this.urlState) this.urlState.write(this.texts());
+  }
+
+  reset() {
+    for (const f of this.fields) {
+      setFieldText(f, this.initial.get(f.def.key));
+    }
+    this.reflectAll();
+    if (this.urlState) this.urlState.clear();
+    this.compute();
+    this.toolStatus.textContent = 'Reset.';
+  }
+
+  currentLink() {
+    return shareLink(this.spec.page, this.texts());
+  }
+
+  async copyLink() {
+    if (this.urlState) this.urlState.flush();
+    const link = this.currentLink();
+    const how = await copyText(link, this.linkField);
+    this.toolStatus.textContent = how === 'copied'
+      ? 'Link copied.'
+      : 'Copying was refused here: the link is selected below, copy it with Ctrl+C (⌘C).';
+  }
+
+  /** The field with this link key. */
+  fieldByKey(key) {
+    return this.fields.find((f) => f.def.key === key);
+  }
+
+  beforeCompute() {}
+
+  skipField() {
+    return false;
+  }
+
+  compute() {
+    const api = this.api;
+    this.beforeCompute();
+    for (const f of this.fields) setFieldMessage(f, null);
+    const { values, bad, rows } = parseFields(api, this.fields, { skip: (f) => this.skipField(f) });
+    this.rows = rows;
+    this.values = values;
+    if (bad.length) {
+      for (const [f, msg] of bad) setFieldMessage(f, msg);
+      this.renderError(bad);
+      return;
+    }
+    let result;
+    try {
+      result = this.run(api, values);
+    } catch (err) {
+      const f = err ? fieldForError(this.fields, err.field, rows) : null;
+      if (f) {
+        setFieldMessage(f, errorText(err));
+        this.renderError([[f, errorText(err)]]);
+      } else {
+        this.renderError([[null, errorText(err)]]);
+      }
+      return;
+    }
+    this.renderResult(result);
+  }
+
+  finish(state, result) {
+    this.result = result;
+    this.dataset.state = state;
+    this.dispatchEvent(new CustomEvent('railnote-result', { bubbles: true, detail: { state, result } }));
+  }
+
+  renderError(bad) {
+    this.status.textContent = '';
+    const n = bad.length;
+    const list = h('ul', { class: 'rn-error-list' });
+    for (const [f, msg] of bad) {
+      if (f) {
+        list.append(h('li', {},
+          h('button', { type: 'button', class: 'rn-linkish', on: { click: () => f.input.focus() } }, f.def.label),
+          ': ', msg));
+      } else list.append(h('li', {}, msg));
+    }
+    const subject = this.spec.subjectWords;
+    this.results.replaceChildren(
+      h('div', { class: 'rn-error-box' },
+        h('p', { class: 'rn-error-head' }, n === 1 ? `One input needs fixing before ${subject} can be checked:` : `${n} inputs need fixing before ${subject} can be checked:`),
+        list));
+    this.announcer.announce(n === 1 ? `Input problem: ${bad[0][0] ? bad[0][0].def.label + ': ' : ''}${bad[0][1]}` : `${n} input problems.`);
+    this.finish('error', null);
+  }
+
+  fmt(v, kind, digits = 3) {
+    return formatWith(this.api, v, kind, digits);
+  }
+
+  renderResult(r) {
+    this.status.textContent = '';
+    const word = VERDICT_WORDS[r.verdict] || String(r.verdict);
+    const parts = [this.verdictBlock(r), ...this.resultParts(r), this.recordBlock()];
+    this.results.replaceChildren(...parts.filter(Boolean));
+    this.announcer.announce(`${word}. ${r.summary}`);
+    this.finish('ready', r);
+  }
+
+  verdictBlock(r) {
+    return h('div', { class: `rn-verdict rn-verdict-${r.verdict}`, 'data-verdict': r.verdict },
+      h('p', { class: 'rn-verdict-word' },
+        h('span', { class: 'rn-verdict-mark', 'aria-hidden': 'true' }, VERDICT_MARKS[r.verdict] || ''),
+        h('span', {}, VERDICT_WORDS[r.verdict] || String(r.verdict))),
+      h('p', { class: 'rn-summary' }, r.summary));
+  }
+
+  /** The checks, each with its status in words, its title and its reason. */
+  checksBlock(r) {
+    const checks = h('ul', { class: 'rn-checks' });
+    for (const c of r.checks || []) {
+      checks.append(h('li', { class: `rn-check rn-status-${c.status}`, 'data-check': c.id },
+        h('span', { class: 'rn-check-status' }, VERDICT_WORDS[c.status] || c.status),
+        h('span', { class: 'rn-check-title' }, c.title),
+        h('span', { class: 'rn-check-text' }, c.text)));
+    }
+    return h('section', { class: 'rn-block' }, h('h3', {}, 'Checks'), checks);
+  }
+
+  warningsBlock(r) {
+    if (!r.warnings || !r.warnings.length) return null;
+    return h('section', { class: 'rn-block rn-warnings' }, h('h3', {}, 'Warnings'),
+      h('ul', {}, r.warnings.map((w) => h('li', {}, w))));
+  }
+
+  /** The record for a review: the link that reproduces the check, the date and the version. */
+  recordBlock() {
+    const stamp = stampNow();
+    const link = this.currentLink();
+    let version = '';
+    try { version = this.api.version(); } catch { version = ''; }
+    return h('footer', { class: 'rn-record' },
+      h('p', {}, 'Link to this check: ', h('a', { href: link, class: 'rn-permalink' }, link)),
+      h('p', {}, 'Computed ', h('time', { datetime: stamp.iso }, stamp.text),
+        version ? ` with railnote ${version}` : '',
+        '. First-order estimate: verify against the datasheet and by measurement.'));
+  }
 }

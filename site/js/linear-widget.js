@@ -8,13 +8,13 @@
 // After every render the element sets data-state ("ready" with a result, "error" when a field is
 // bad, "failed" if the engine could not load) and dispatches a bubbling `railnote-result`
 // CustomEvent whose detail is { state, result } (result is null unless state is "ready").
+// All of that is common.js's CalculatorElement; this file has the fields, the call and the layout.
 //
 // The numbers all come from the WASM API (checkLinear, formatQuantity, parseQuantity); this file
 // lays them out and never computes them.
 import { ready } from './engine.js';
 import {
-  h, symbol, uniquePrefix, buildField, setFieldMessage, setFieldText, parseFields, errorText,
-  readQuery, UrlState, shareLink, copyText, createAnnouncer, formatWith, stampNow,
+  h, symbol, shareLink, formatWith, CalculatorElement, VERDICT_WORDS,
 } from './common.js';
 import { renderChart } from './chart.js';
 
@@ -76,11 +76,11 @@ export const GROUPS = [
 ];
 
 export const FIELD_DEFS = GROUPS.flatMap((g) => g.fields);
-const KEYS = FIELD_DEFS.map((d) => d.key);
-const BY_PROP = new Map(FIELD_DEFS.map((d) => [d.prop, d]));
 
-const VERDICT_WORDS = { pass: 'Pass', marginal: 'Marginal', fail: 'Fail' };
-const VERDICT_MARKS = { pass: '✓', marginal: '!', fail: '✗' };
+/** The thermal page's own example inputs, cleared in the carry-over link (see thermalLink). */
+const THERMAL_EXAMPLE_KEYS = ['r1', 'tau1', 'r2', 'tau2', 'r3', 'tau3', 'r4', 'tau4',
+  'pulse-power', 'pulse-on', 'pulse-period', 'psi-jt', 'case-top'];
+
 const BOUND_WORDS = {
   thermal: 'the junction temperature limit (with its margin)',
   headroom: 'headroom over dropout (with its margin)',
@@ -88,291 +88,72 @@ const BOUND_WORDS = {
 };
 
 const FULL_PAGE = new URL('../linear.html', import.meta.url).href;
+const THERMAL_PAGE = new URL('../thermal.html', import.meta.url).href;
 
-export class RailnoteLinear extends HTMLElement {
-  static get observedAttributes() {
-    return KEYS;
-  }
+export class RailnoteLinear extends CalculatorElement {
+  static spec = {
+    name: 'linear',
+    engine: ready,
+    groups: GROUPS,
+    page: FULL_PAGE,
+    inputsLabel: 'Linear rail inputs',
+    resultsLabel: 'Results of the linear rail check',
+    demoWords: 'the demo rail',
+    subjectWords: 'the rail',
+  };
 
-  constructor() {
-    super();
-    this.built = false;
-    this.api = null;
-    this.fields = [];
-    this.result = null;
-    this.reflecting = false;
-    this.initial = new Map();
-    this.listening = null;
-  }
-
-  connectedCallback() {
-    if (!this.listening) this.listen();
-    if (this.built) return;
-    this.built = true;
-    for (const d of FIELD_DEFS) this.initial.set(d.key, this.hasAttribute(d.key) ? this.getAttribute(d.key) : d.def);
-    this.dataset.state = 'loading';
-    this.build();
-    ready.then(
-      (api) => {
-        this.api = api;
-        this.restore();
-        this.compute();
-      },
-      (err) => {
-        this.dataset.state = 'failed';
-        this.status.textContent = `The calculation engine could not load (${errorText(err)}). Reload the page; if it persists, the site's pkg/ folder is missing or damaged.`;
-        this.dispatchEvent(new CustomEvent('railnote-result', { bubbles: true, detail: { state: 'failed', result: null } }));
-      },
-    );
-  }
-
-  attributeChangedCallback(name, _old, value) {
-    if (this.reflecting || !this.built || !this.api) return;
-    const f = this.fields.find((x) => x.def.key === name);
-    if (!f) return;
-    const text = value === null ? f.def.def : value;
-    if (f.input.value !== text) {
-      setFieldText(f, text);
-      this.compute();
-      if (this.urlState) this.urlState.write(this.texts());
-    }
-  }
-
-  /**
-   * The current text of every field, in field order, as it goes into links: empty optional
-   * fields are left out (a missing key restores as empty, so the link means the same).
-   */
-  texts() {
-    return new Map(this.fields
-      .filter((f) => !(f.def.optional && f.input.value === '' && this.initial.get(f.def.key) === ''))
-      .map((f) => [f.def.key, f.input.value]));
-  }
-
-  build() {
-    const prefix = uniquePrefix('rn-lin');
-    this.classList.add('rn-widget');
-    const form = h('form', { class: 'rn-inputs', novalidate: true, 'aria-label': 'Linear rail inputs' });
-    form.addEventListener('submit', (e) => e.preventDefault());
-    for (const g of GROUPS) {
-      const fs = h('fieldset', { class: 'rn-group' }, h('legend', {}, g.title));
-      for (const d of g.fields) {
-        const f = buildField(d, prefix);
-        this.fields.push(f);
-        fs.append(f.root);
-      }
-      form.append(fs);
-    }
-    form.addEventListener('input', (e) => this.onEdit(e));
-    form.addEventListener('change', (e) => this.onEdit(e));
-
-    this.linkField = h('input', { type: 'text', readonly: true, class: 'rn-link-fallback', hidden: true, 'aria-label': 'Link to this check' });
-    this.toolStatus = h('span', { class: 'rn-tool-status', role: 'status' });
-    const tools = h('div', { class: 'rn-tools' },
-      h('button', { type: 'button', class: 'rn-copy', on: { click: () => this.copyLink() } }, 'Copy link'),
-      h('button', { type: 'button', class: 'rn-reset', on: { click: () => this.reset() } }, 'Reset to ' + (this.hasAnyInitialAttribute() ? 'the embedded values' : 'the demo rail')),
-      this.toolStatus, this.linkField);
-
-    this.status = h('p', { class: 'rn-status', text: 'Loading the calculation engine…' });
-    this.announcer = createAnnouncer();
-    this.results = h('section', { class: 'rn-results', 'aria-label': 'Results of the linear rail check' });
-
-    this.append(
-      h('div', { class: 'rn-sheet' },
-        h('div', { class: 'rn-sheet-inputs' }, form, tools),
-        h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
-      this.announcer.region);
-    if (this.hasAttribute('sync-url')) this.urlState = new UrlState(KEYS);
-  }
-
-  /** Window listeners live while the element is in the document. */
-  listen() {
-    this.listening = new AbortController();
-    const { signal } = this.listening;
-    // Redraw for a new column width (debounced), so the chart text keeps its size.
-    let resizeTimer = null;
-    window.addEventListener('resize', () => {
-      clearTimeout(resizeTimer);
-      resizeTimer = setTimeout(() => {
-        const column = this.results.clientWidth;
-        if (this.result && this.chartWidth && Math.abs(Math.min(760, Math.max(340, column)) - this.chartWidth) > 40) this.renderResult(this.result);
-      }, 200);
-    }, { signal });
-    // Folded sections print open: a review record shows everything.
-    window.addEventListener('beforeprint', () => {
-      for (const d of this.querySelectorAll('details')) d.open = true;
-    }, { signal });
-  }
-
-  disconnectedCallback() {
-    if (this.listening) this.listening.abort();
-    this.listening = null;
-  }
-
-  hasAnyInitialAttribute() {
-    return FIELD_DEFS.some((d) => this.hasAttribute(d.key));
-  }
-
-  /** Fill the fields from attributes, then (with sync-url) from the page URL, exactly as given. */
-  restore() {
-    const fromUrl = this.urlState ? readQuery(KEYS) : new Map();
-    for (const f of this.fields) {
-      const k = f.def.key;
-      setFieldText(f, fromUrl.has(k) ? fromUrl.get(k) : this.initial.get(k));
-    }
-    this.reflectAll();
-  }
-
-  reflectAll() {
-    this.reflecting = true;
-    for (const f of this.fields) this.setAttribute(f.def.key, f.input.value);
-    this.reflecting = false;
-  }
-
-  onEdit(e) {
-    const f = this.fields.find((x) => x.input === e.target);
-    if (!f || !this.api) return;
-    if (f.def.type === 'select' && f.input.value !== '') setFieldText(f, f.input.value);
-    this.reflecting = true;
-    this.setAttribute(f.def.key, f.input.value);
-    this.reflecting = false;
-    this.compute();
-    if (this.urlState) this.urlState.write(this.texts());
-  }
-
-  reset() {
-    for (const f of this.fields) {
-      setFieldText(f, this.initial.get(f.def.key));
-    }
-    this.reflectAll();
-    if (this.urlState) this.urlState.clear();
-    this.compute();
-    this.toolStatus.textContent = 'Reset.';
-  }
-
-  currentLink() {
-    return shareLink(FULL_PAGE, this.texts());
-  }
-
-  async copyLink() {
-    if (this.urlState) this.urlState.flush();
-    const link = this.currentLink();
-    const how = await copyText(link, this.linkField);
-    this.toolStatus.textContent = how === 'copied'
-      ? 'Link copied.'
-      : 'Copying was refused here: the link is selected below, copy it with Ctrl+C (⌘C).';
+  run(api, values) {
+    return api.checkLinear(values);
   }
 
   /** Mark the dropout fields the chosen model does not use (they keep their text for links). */
-  markUnused() {
-    const model = this.fields.find((f) => f.def.key === 'dropout-model').input.value;
+  beforeCompute() {
+    const model = this.fieldByKey('dropout-model').input.value;
     const unused = { classic: ['dropout', 'dropout-at'], constant: ['dropout-at'] }[model] || [];
     for (const f of this.fields) f.root.classList.toggle('rn-unused', unused.includes(f.def.key));
   }
 
-  compute() {
-    const api = this.api;
-    this.markUnused();
-    for (const f of this.fields) setFieldMessage(f, null);
-    const { values, bad } = parseFields(api, this.fields);
-    if (bad.length) {
-      for (const [f, msg] of bad) setFieldMessage(f, msg);
-      this.renderError(bad);
-      return;
-    }
-    let result;
-    try {
-      result = api.checkLinear(values);
-    } catch (err) {
-      const def = err && BY_PROP.get(err.field);
-      const f = def && this.fields.find((x) => x.def === def);
-      if (f) {
-        setFieldMessage(f, errorText(err));
-        this.renderError([[f, errorText(err)]]);
-      } else {
-        this.renderError([[null, errorText(err)]]);
-      }
-      return;
-    }
-    this.renderResult(result);
-  }
-
-  finish(state, result) {
-    this.result = result;
-    this.dataset.state = state;
-    this.dispatchEvent(new CustomEvent('railnote-result', { bubbles: true, detail: { state, result } }));
-  }
-
-  renderError(bad) {
-    this.status.textContent = '';
-    const n = bad.length;
-    const list = h('ul', { class: 'rn-error-list' });
-    for (const [f, msg] of bad) {
-      if (f) {
-        list.append(h('li', {},
-          h('button', { type: 'button', class: 'rn-linkish', on: { click: () => f.input.focus() } }, f.def.label),
-          ': ', msg));
-      } else list.append(h('li', {}, msg));
-    }
-    this.results.replaceChildren(
-      h('div', { class: 'rn-error-box' },
-        h('p', { class: 'rn-error-head' }, n === 1 ? 'One input needs fixing before the rail can be checked:' : `${n} inputs need fixing before the rail can be checked:`),
-        list));
-    this.announcer.announce(n === 1 ? `Input problem: ${bad[0][0] ? bad[0][0].def.label + ': ' : ''}${bad[0][1]}` : `${n} input problems.`);
-    this.finish('error', null);
-  }
-
-  fmt(v, kind, digits = 3) {
-    return formatWith(this.api, v, kind, digits);
-  }
-
-  renderResult(r) {
-    this.status.textContent = '';
-    const word = VERDICT_WORDS[r.verdict] || String(r.verdict);
+  resultParts(r) {
     const parts = [];
-
-    parts.push(h('div', { class: `rn-verdict rn-verdict-${r.verdict}`, 'data-verdict': r.verdict },
-      h('p', { class: 'rn-verdict-word' },
-        h('span', { class: 'rn-verdict-mark', 'aria-hidden': 'true' }, VERDICT_MARKS[r.verdict] || ''),
-        h('span', {}, word)),
-      h('p', { class: 'rn-summary' }, r.summary)));
-
     if (r.suggestSwitching) {
       parts.push(h('p', { class: 'rn-suggest' },
         'Heat or efficiency is what limits this rail, so a switching regulator may suit it better. ',
         'railnote’s switching estimate is a later calculator; until it arrives, compare by hand.'));
     }
-
-    const checks = h('ul', { class: 'rn-checks' });
-    for (const c of r.checks || []) {
-      checks.append(h('li', { class: `rn-check rn-status-${c.status}`, 'data-check': c.id },
-        h('span', { class: 'rn-check-status' }, VERDICT_WORDS[c.status] || c.status),
-        h('span', { class: 'rn-check-title' }, c.title),
-        h('span', { class: 'rn-check-text' }, c.text)));
-    }
-    parts.push(h('section', { class: 'rn-block' }, h('h3', {}, 'Checks'), checks));
-
-    if (r.warnings && r.warnings.length) {
-      parts.push(h('section', { class: 'rn-block rn-warnings' }, h('h3', {}, 'Warnings'),
-        h('ul', {}, r.warnings.map((w) => h('li', {}, w)))));
-    }
-
+    parts.push(this.checksBlock(r));
+    parts.push(this.warningsBlock(r));
     parts.push(this.limitsBlock(r));
     parts.push(this.cornersBlock(r));
     parts.push(this.windowBlock(r));
+    return parts;
+  }
 
-    const stamp = stampNow();
-    const link = this.currentLink();
-    let version = '';
-    try { version = this.api.version(); } catch { version = ''; }
-    parts.push(h('footer', { class: 'rn-record' },
-      h('p', {}, 'Link to this check: ', h('a', { href: link, class: 'rn-permalink' }, link)),
-      h('p', {}, 'Computed ', h('time', { datetime: stamp.iso }, stamp.text),
-        version ? ` with railnote ${version}` : '',
-        '. First-order estimate: verify against the datasheet and by measurement.')));
+  /**
+   * A link to the thermal path calculator holding this rail's worst-case dissipation (as the
+   * engine formats it, to six figures) and the thermal fields exactly as typed. The thermal
+   * page's own example (its Foster network, pulse and case-top reading) is cleared, so only this
+   * rail's numbers are in it.
+   */
+  thermalLink(r) {
+    const w = r.worst || {};
+    const text = (key) => this.fieldByKey(key).input.value;
+    const texts = new Map([
+      ['power', this.fmt(w.powerW, 'power', 6)],
+      ['path', 'ja'],
+      ['theta-ja', text('theta-ja')],
+      ['ta-max', text('ta-max')],
+      ['tj-max', text('tj-max')],
+      ['margin', text('thermal-margin')],
+    ]);
+    for (const key of THERMAL_EXAMPLE_KEYS) texts.set(key, '');
+    return shareLink(THERMAL_PAGE, texts);
+  }
 
-    this.results.replaceChildren(...parts);
-    this.announcer.announce(`${word}. ${r.summary}`);
-    this.finish('ready', r);
+  thermalCarryOver(r) {
+    if (!r.worst || r.worst.powerW === null || r.worst.powerW === undefined) return null;
+    return h('p', { class: 'rn-carry' },
+      h('a', { href: this.thermalLink(r), class: 'rn-thermal-link', 'data-carry': 'thermal' }, 'Check the thermal path'),
+      ` of this rail: opens the thermal path calculator with its worst-case dissipation (${this.fmt(r.worst.powerW, 'power')}), θJA, hottest ambient, junction limit and thermal margin, for a heat sink, a measured case temperature or a pulsed load.`);
   }
 
   limitsBlock(r) {
@@ -509,8 +290,7 @@ export class RailnoteLinear extends HTMLElement {
     notes.push({ x: (w.vinMin + w.vinMax) / 2, y: w.ioutMax / 2, text: 'operating box', anchor: 'middle' });
     // Size the drawing to the column it sits in, so its 12 px text stays 12 px on screen
     // (an SVG scaled down from a fixed width would shrink its labels in narrow embeds).
-    const column = this.results.clientWidth || 640;
-    const width = Math.round(Math.min(760, Math.max(340, column)));
+    const width = this.columnWidth();
     this.chartWidth = width;
     const { svg, legend } = renderChart({
       notes,

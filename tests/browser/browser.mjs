@@ -62,34 +62,37 @@ export function assertSameOrigin(requests) {
   assert.deepEqual(foreign, [], `requests left the origin ${ORIGIN}`);
 }
 
-/** Wait until the widget has rendered a result or an error, and return that state. */
-export async function settled(scope, state) {
-  const sel = state ? `railnote-linear[data-state="${state}"]` : 'railnote-linear[data-state="ready"], railnote-linear[data-state="error"]';
+/**
+ * Wait until the widget (by default <railnote-linear>; pass the tag for another calculator) has
+ * rendered a result or an error, and return that state.
+ */
+export async function settled(scope, state, tag = 'railnote-linear') {
+  const sel = state ? `${tag}[data-state="${state}"]` : `${tag}[data-state="ready"], ${tag}[data-state="error"]`;
   try {
     await scope.locator(sel).waitFor({ timeout: 15000 });
   } catch (err) {
     // Say what the widget was showing instead, so a failure explains itself.
-    const seen = await scope.locator('railnote-linear').evaluate((el) => ({
+    const seen = await scope.locator(tag).evaluate((el) => ({
       state: el.dataset.state, text: el.textContent.slice(0, 300),
     })).catch((e) => ({ state: 'no widget', text: String(e) }));
     throw new Error(`widget did not reach ${state || 'ready/error'}: state ${seen.state}; it shows: ${seen.text}`, { cause: err });
   }
-  return scope.locator('railnote-linear').getAttribute('data-state');
+  return scope.locator(tag).getAttribute('data-state');
 }
 
 /** The input (or select) of a field, by its key (the URL key / attribute name). */
-export function field(scope, key) {
-  return scope.locator(`railnote-linear .rn-field[data-key="${key}"] input, railnote-linear .rn-field[data-key="${key}"] select`);
+export function field(scope, key, tag = 'railnote-linear') {
+  return scope.locator(`${tag} .rn-field[data-key="${key}"] input, ${tag} .rn-field[data-key="${key}"] select`);
 }
 
 /** The message element of a field. */
-export function message(scope, key) {
-  return scope.locator(`railnote-linear .rn-field[data-key="${key}"] .rn-msg`);
+export function message(scope, key, tag = 'railnote-linear') {
+  return scope.locator(`${tag} .rn-field[data-key="${key}"] .rn-msg`);
 }
 
 /** The last result object the widget rendered (null if it shows an error). */
-export async function result(page) {
-  return page.locator('railnote-linear').evaluate((el) => el.result);
+export async function result(page, tag = 'railnote-linear') {
+  return page.locator(tag).evaluate((el) => el.result);
 }
 
 /** Relative closeness, for comparing the engine's numbers with hand-worked ones. */
