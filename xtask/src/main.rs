@@ -210,6 +210,10 @@ const TEST_STEPS: &[(&str, Step)] = &[
     ),
     ("cargo test -p xtask", Step::Cargo(&["test", "-p", "xtask"])),
     (
+        "cargo test -p railnote-reference -- --nocapture (core vs ngspice)",
+        Step::Cargo(&["test", "-p", "railnote-reference", "--", "--nocapture"]),
+    ),
+    (
         "cargo test -p railnote-wasm --target wasm32-unknown-unknown (headless Chromium)",
         Step::WasmBrowserTests,
     ),
