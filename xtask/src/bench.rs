@@ -5,6 +5,9 @@
 //!    (every response gzipped), navigation to the first result, and edit to painted result.
 //! 3. The same batch of linear checks natively (core/examples/bench_linear.rs) and in WASM under
 //!    Node (tests/bench/wasm_linear.mjs), printed as a ratio.
+//! 4. A 10 000-step T_j(t) series of an eight-stage Foster network (one thermal check each),
+//!    natively (core/examples/bench_thermal.rs) and through the page's own WASM in headless
+//!    Chromium (tests/bench/wasm_thermal.mjs), side by side with their ratio.
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
@@ -15,6 +18,8 @@ use std::process::Command;
 
 /// Checks per run of the native-vs-WASM comparison: about a tenth of a second natively.
 const LINEAR_CHECKS: &str = "20000";
+/// Thermal checks (10 000-step series each) per run: about half a second natively.
+const THERMAL_CHECKS: &str = "200";
 
 pub fn bench() -> Result {
     tools::ensure_bench_tools()?;
@@ -22,13 +27,14 @@ pub fn bench() -> Result {
     sizes()?;
     browser()?;
     native_vs_wasm()?;
+    thermal_series()?;
     println!();
     println!("xtask bench: done (figures only; nothing here fails on time)");
     Ok(())
 }
 
 fn sizes() -> Result {
-    header("bench 1/3: WASM size");
+    header("bench 1/4: WASM size");
     let record = bindgen_size_record();
     let raw: u64 = fs::read_to_string(&record)
         .ok()
@@ -50,7 +56,7 @@ fn sizes() -> Result {
 }
 
 fn browser() -> Result {
-    header("bench 2/3: linear page in headless Chromium");
+    header("bench 2/4: linear page in headless Chromium");
     let page = linear_page(&site_dir()).ok_or("site/ has no linear page to measure")?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -62,7 +68,7 @@ fn browser() -> Result {
 }
 
 fn native_vs_wasm() -> Result {
-    header("bench 3/3: the same batch of linear checks, native and WASM (Node)");
+    header("bench 3/4: the same batch of linear checks, native and WASM (Node)");
     let native = output(cargo().current_dir(repo_root()).args([
         "run",
         "--quiet",
@@ -95,6 +101,56 @@ fn native_vs_wasm() -> Result {
     );
     // Both sum the worst-case junction temperature over the batch; equal sums show equal inputs
     // and equal arithmetic (both use libm).
+    if ((native_sum - wasm_sum) / native_sum).abs() < 1e-12 {
+        println!("checksums agree ({native_sum}): both ran the same batch");
+    } else {
+        println!(
+            "WARNING: checksums differ (native {native_sum}, WASM {wasm_sum}): not the same batch"
+        );
+    }
+    Ok(())
+}
+
+fn thermal_series() -> Result {
+    header("bench 4/4: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
+    let native = output(cargo().current_dir(repo_root()).args([
+        "run",
+        "--quiet",
+        "--release",
+        "-p",
+        "railnote-core",
+        "--example",
+        "bench_thermal",
+        "--",
+        THERMAL_CHECKS,
+    ]))?;
+    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
+    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
+    let wasm = output(
+        Command::new("node")
+            .arg("tests/bench/wasm_thermal.mjs")
+            .arg(format!("http://{addr}/"))
+            .arg(THERMAL_CHECKS)
+            .current_dir(repo_root()),
+    )?;
+    let (native, wasm) = (last_line(&native), last_line(&wasm));
+    println!("native:        {native}");
+    println!("wasm-chromium: {wasm}");
+    let field = |line: &str, key: &str| {
+        json_number(line, key).ok_or_else(|| format!("no {key} in {line:?}"))
+    };
+    let (native_ns, wasm_ns) = (field(native, "nsPerCheck")?, field(wasm, "nsPerCheck")?);
+    let steps = field(native, "steps")?;
+    println!(
+        "per {steps:.0}-step series: native {:.3} ms, WASM in Chromium {:.3} ms: WASM takes {:.2}× \
+         the native time ({:.0} ns vs {:.0} ns per step, report included)",
+        native_ns / 1e6,
+        wasm_ns / 1e6,
+        wasm_ns / native_ns,
+        native_ns / steps,
+        wasm_ns / steps,
+    );
+    let (native_sum, wasm_sum) = (field(native, "checksum")?, field(wasm, "checksum")?);
     if ((native_sum - wasm_sum) / native_sum).abs() < 1e-12 {
         println!("checksums agree ({native_sum}): both ran the same batch");
     } else {
