@@ -198,7 +198,9 @@ export function parseFields(api, fields, { skip } = {}) {
     }
     const text = f.input.value;
     if (def.type === 'select') {
-      if (def.options.some((o) => o.value === text)) values[def.prop] = text;
+      // An option may stand for a value of another type (a count): `apiValue` is what the API gets.
+      const option = def.options.find((o) => o.value === text);
+      if (option) values[def.prop] = option.apiValue === undefined ? text : option.apiValue;
       else bad.push([f, def.choiceMessage || 'choose one of the listed models.']);
       continue;
     }
@@ -530,7 +532,9 @@ export class CalculatorElement extends HTMLElement {
       if (g.rows) {
         const { root, fields } = buildFieldRows(g.fields, prefix, g.rows);
         this.fields.push(...fields);
-        fs.append(root);
+        // A long optional table can sit folded; it opens when it holds text or a message.
+        if (g.folded) fs.append(h('details', { class: 'rn-fold' }, h('summary', {}, g.folded), root));
+        else fs.append(root);
       } else {
         for (const d of g.fields) {
           const f = buildField(d, prefix);
@@ -606,6 +610,14 @@ export class CalculatorElement extends HTMLElement {
       setFieldText(f, fromUrl.has(k) ? fromUrl.get(k) : this.initial.get(k));
     }
     this.reflectAll();
+    this.unfoldFilled();
+  }
+
+  /** Open a folded group that holds text, so nothing typed or linked is out of sight. */
+  unfoldFilled() {
+    for (const d of this.querySelectorAll('.rn-inputs details.rn-fold')) {
+      if ([...d.querySelectorAll('input')].some((i) => i.value.trim() !== '')) d.open = true;
+    }
   }
 
   reflectAll() {
@@ -630,6 +642,7 @@ export class CalculatorElement extends HTMLElement {
       setFieldText(f, this.initial.get(f.def.key));
     }
     this.reflectAll();
+    this.unfoldFilled();
     if (this.urlState) this.urlState.clear();
     this.compute();
     this.toolStatus.textContent = 'Reset.';
@@ -667,7 +680,11 @@ export class CalculatorElement extends HTMLElement {
     this.rows = rows;
     this.values = values;
     if (bad.length) {
-      for (const [f, msg] of bad) setFieldMessage(f, msg);
+      for (const [f, msg] of bad) {
+        setFieldMessage(f, msg);
+        const fold = f.root.closest('details');
+        if (fold) fold.open = true;
+      }
       this.renderError(bad);
       return;
     }
@@ -678,6 +695,8 @@ export class CalculatorElement extends HTMLElement {
       const f = err ? fieldForError(this.fields, err.field, rows) : null;
       if (f) {
         setFieldMessage(f, errorText(err));
+        const fold = f.root.closest('details');
+        if (fold) fold.open = true;
         this.renderError([[f, errorText(err)]]);
       } else {
         this.renderError([[null, errorText(err)]]);
@@ -721,7 +740,7 @@ export class CalculatorElement extends HTMLElement {
     this.status.textContent = '';
     const word = VERDICT_WORDS[r.verdict] || String(r.verdict);
     const parts = [this.verdictBlock(r), ...this.resultParts(r), this.recordBlock()];
-    this.results.replaceChildren(...parts.filter(Boolean));
+    this.results.replaceChildren(...parts.flat(Infinity).filter(Boolean));
     this.announcer.announce(`${word}. ${r.summary}`);
     this.finish('ready', r);
   }

@@ -1,10 +1,12 @@
-// The iframe embed page: one calculator, compact, prefilled from the query (?calc=linear&vin-min=…).
+// The iframe embed page: one calculator, compact, prefilled from the query (?calc=linear&vin-min=…,
+// ?calc=thermal&power=…).
 // Reports its height to the parent page so a host script can size the iframe; hosts that allow no
 // script give the iframe a fixed height (see linear.html#embed).
 import { h, reportEmbedHeight } from './common.js';
 
 const CALCULATORS = {
   linear: { tag: 'railnote-linear', module: './linear-widget.js', title: 'Linear rail check' },
+  thermal: { tag: 'railnote-thermal', module: './thermal-widget.js', title: 'Thermal path' },
 };
 
 const root = document.getElementById('embed-root');
@@ -14,7 +16,7 @@ const entry = Object.prototype.hasOwnProperty.call(CALCULATORS, calc) ? CALCULAT
 if (!entry) {
   root.append(h('p', { class: 'rn-error-box' },
     'This embed link names a calculator railnote does not have (“', calc.slice(0, 80), '”). ',
-    'Use calc=linear.'));
+    `Use calc=${Object.keys(CALCULATORS).join(' or calc=')}.`));
   reportEmbedHeight(calc);
 } else {
   document.title = `${entry.title} · railnote`;

@@ -124,6 +124,7 @@ export class RailnoteLinear extends CalculatorElement {
     parts.push(this.warningsBlock(r));
     parts.push(this.limitsBlock(r));
     parts.push(this.cornersBlock(r));
+    parts.push(this.thermalCarryOver(r));
     parts.push(this.windowBlock(r));
     return parts;
   }

@@ -1,12 +1,15 @@
 // Every page: loads cleanly from its own origin only, shows the cautions, has no inline script or
-// handler, and the reference's link-key table matches the widget. Also screenshots linear.html in
-// light, dark and print (tests/out/, git-ignored) for a person to look at.
+// handler, and the reference's link-key tables match the widgets. Also screenshots linear.html in
+// light, dark and print (tests/out/, git-ignored) for a person to look at (thermal.html's are
+// taken in thermal.test.mjs).
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import { launch, open, url, assertSameOrigin, settled, field, OUT_DIR } from './browser.mjs';
 
-const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'reference.html'];
+const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'thermal.html', 'embed.html?calc=thermal', 'reference.html'];
+/** The calculator element a page shows, if any. */
+const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear' : null);
 // The brief's cautions, in the words every page that can lead to hardware must carry.
 const CAUTION_PHRASES = [/first-order/i, /datasheet/i, /measurement/i, /burn/i, /60 V DC/, /mains/i, /local codes/i, /licensed practice/i];
 
@@ -21,7 +24,7 @@ test('each page loads with status 200, no errors, nothing fetched from elsewhere
   for (const p of PAGES) {
     const resp = await page.goto(url(p));
     assert.equal(resp.status(), 200, p);
-    if (p.startsWith('linear') || p.startsWith('embed')) await settled(page, 'ready');
+    if (TAG_OF(p)) await settled(page, 'ready', TAG_OF(p));
     const info = await page.evaluate(() => ({
       inline: [...document.scripts].filter((s) => !s.src).length,
       handlers: [...document.querySelectorAll('*')].filter((el) => [...el.attributes].some((a) => /^on/i.test(a.name))).length,
@@ -63,6 +66,25 @@ test('the reference lists exactly the widget\'s link keys, with their API names'
   // Every API input key of the contract appears in the reference's checkLinear input table.
   const inputs = await page.evaluate(() => document.querySelector('#check-linear-input + .rn-table-scroll').textContent);
   for (const [, prop] of widget) assert.ok(inputs.includes(prop), `reference documents ${prop}`);
+  await context.close();
+});
+
+test('the reference lists exactly the thermal widget\'s link keys, with their API names', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('reference.html'));
+  // Numbered rows (r1 … r8) sit in one table row with data-keys; the API name is the list's.
+  const table = await page.evaluate(() => [...document.querySelectorAll('#thermal-url-key-table tbody tr')].flatMap((tr) => {
+    const api = tr.cells[1].textContent.trim();
+    const keys = tr.dataset.keys ? tr.dataset.keys.split(' ') : [tr.cells[0].textContent.trim()];
+    return keys.map((k) => [k, api]);
+  }));
+  const widget = await page.evaluate(async () => {
+    const m = await import('./js/thermal-widget.js');
+    return m.FIELD_DEFS.map((d) => [d.key, d.apiName || d.prop]);
+  });
+  assert.deepEqual(table.slice().sort(), widget.slice().sort());
+  const inputs = await page.evaluate(() => document.querySelector('#check-thermal-input + .rn-table-scroll').textContent);
+  for (const [, api] of widget) assert.ok(inputs.includes(api.split('[')[0]), `reference documents ${api}`);
   await context.close();
 });
 
@@ -141,14 +163,16 @@ test('the pages work under a strict Content-Security-Policy with Trusted Types',
     const response = await route.fetch();
     await route.fulfill({ response, headers: { ...response.headers(), 'content-security-policy': policy } });
   });
-  for (const p of ['linear.html?vout=3V3', 'embed.html?calc=linear', 'index.html', 'reference.html']) {
+  for (const p of ['linear.html?vout=3V3', 'embed.html?calc=linear', 'thermal.html?power=0.4', 'embed.html?calc=thermal', 'index.html', 'reference.html']) {
     await page.goto(url(p));
-    if (!p.startsWith('index') && !p.startsWith('reference')) {
-      assert.equal(await settled(page, 'ready'), 'ready', `${p} computes under the policy`);
-      await field(page, 'vin-min').fill('abc');
-      assert.equal(await settled(page, 'error'), 'error');
-      await field(page, 'vin-min').fill('4.85');
-      assert.equal(await settled(page, 'ready'), 'ready');
+    const tag = TAG_OF(p);
+    if (tag) {
+      const key = tag === 'railnote-linear' ? 'vin-min' : 'power';
+      assert.equal(await settled(page, 'ready', tag), 'ready', `${p} computes under the policy`);
+      await field(page, key, tag).fill('abc');
+      assert.equal(await settled(page, 'error', tag), 'error');
+      await field(page, key, tag).fill(tag === 'railnote-linear' ? '4.85' : '0.49');
+      assert.equal(await settled(page, 'ready', tag), 'ready');
     }
     assert.deepEqual(await page.evaluate(() => window.__violations), [], `${p}: no policy violations`);
   }
