@@ -314,7 +314,7 @@ export function layoutChart(spec) {
     y0: margin.top,
     y1: Math.max(margin.top + 10, height - margin.bottom),
   };
-  const axis = (a, r) => {
+  const axis = (a, r, horizontal) => {
     const type = a.type === 'log' ? 'log' : 'linear';
     const nice = a.nice !== false;
     let domain = saneDomain(a.domain, type === 'log');
@@ -325,13 +325,21 @@ export function layoutChart(spec) {
     let minor = [];
     if (type === 'log') ({ major, minor } = logTicks(domain));
     else major = linearTicks(domain, a.ticks || 5);
-    const ticks = major.map((v) => ({ value: v, pos: scale(v), label: safeLabel(format, v) }));
+    let ticks = major.map((v) => ({ value: v, pos: scale(v), label: safeLabel(format, v) }));
+    // Many decades across a narrow plot crowd their labels: label every k-th decade (the grid
+    // keeps every line). A label is about 7 px per character at the 12 px chart font.
+    if (type === 'log' && ticks.length > 2) {
+      const gap = Math.abs(ticks[1].pos - ticks[0].pos);
+      const widest = horizontal ? Math.max(...ticks.map((t) => t.label.length)) * 7 + 8 : 16;
+      const k = Math.ceil(widest / Math.max(gap, 1));
+      if (k > 1) ticks = ticks.map((t, i) => (i % k === 0 ? t : { ...t, label: '' }));
+    }
     const minorTicks = minor.map((v) => ({ value: v, pos: scale(v) }));
     return { type, domain, scale, ticks, minorTicks, label: a.label || '' };
   };
-  const x = axis(spec.x || {}, [rect.x0, rect.x1]);
+  const x = axis(spec.x || {}, [rect.x0, rect.x1], true);
   // SVG y grows downwards: the lowest value sits at the bottom edge.
-  const y = axis(spec.y || {}, [rect.y1, rect.y0]);
+  const y = axis(spec.y || {}, [rect.y1, rect.y0], false);
   const series = (spec.series || []).map((s, i) => {
     const px = project(s.points, x.scale, y.scale);
     let d = '';

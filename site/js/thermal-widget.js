@@ -104,7 +104,7 @@ export const GROUPS = [
       { key: 'pulse-power', prop: 'pulsePowerW', kind: 'power', unit: 'W', label: 'Power during a pulse', sym: ['P', 'pulse'], optional: true, def: '0.49 W' },
       { key: 'pulse-on', prop: 'pulseOnS', kind: 'time', unit: 's', label: 'On time of each pulse', sym: ['t', 'on'], optional: true, def: '50 ms' },
       { key: 'pulse-period', prop: 'pulsePeriodS', kind: 'time', unit: 's', label: 'Period', sym: ['T', ''], optional: true, def: '500 ms' },
-      { key: 'periods', prop: 'profilePeriods', type: 'select', options: PERIOD_CHOICES, label: 'Repeats shown in the T_j(t) plot', def: '10',
+      { key: 'periods', prop: 'profilePeriods', type: 'select', options: PERIOD_CHOICES, label: 'Repeats shown in the plot over time', def: '10',
         choiceMessage: 'choose one of the listed counts.' },
     ],
   },
@@ -372,11 +372,11 @@ export class RailnoteThermal extends CalculatorElement {
       y: { label: 'Z_th', domain: [0, t.rTotal * 1.08], format: fmtAxis('thermalResistance'), nice: false },
       series,
     });
-    const block = this.figure('rn-zth', 'Thermal impedance Z_th(t)', chart,
+    const block = this.figure('rn-zth', 'Thermal impedance after a step of power', chart,
       'A short pulse heats the junction by P·Z_th(t_on), much less than P·θ: the slow stages have no time to fill.');
     if (this.hasAttribute('compact')) {
       const inner = [...block.childNodes].slice(1);
-      return h('section', { class: 'rn-block rn-window rn-zth' }, h('details', {}, h('summary', {}, 'Thermal impedance Z_th(t)'), inner));
+      return h('section', { class: 'rn-block rn-window rn-zth' }, h('details', {}, h('summary', {}, 'Thermal impedance after a step of power'), inner));
     }
     return block;
   }

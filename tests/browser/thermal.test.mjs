@@ -398,6 +398,31 @@ test('copy link and reset work as on every calculator', async () => {
   await context.close();
 });
 
+test('print shows the inputs, verdict, plots, link and date, and hides the buttons', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('thermal.html?power=0.4%20W'));
+  await settled(page, 'ready', TAG);
+  await page.emulateMedia({ media: 'print' });
+  await page.evaluate(() => window.dispatchEvent(new Event('beforeprint')));
+  const seen = await page.evaluate(() => {
+    const visible = (sel) => [...document.querySelectorAll(sel)].some((e) => e.getClientRects().length > 0 && getComputedStyle(e).visibility !== 'hidden');
+    return {
+      buttons: visible('railnote-thermal button'),
+      verdict: visible('.rn-verdict'),
+      charts: [...document.querySelectorAll('svg.rn-chart')].filter((e) => e.getClientRects().length > 0).length,
+      link: document.querySelector('.rn-permalink').textContent,
+      date: visible('.rn-record time'),
+      folded: [...document.querySelectorAll('railnote-thermal details')].every((d) => d.open),
+    };
+  });
+  assert.equal(seen.buttons, false, 'no buttons in print');
+  assert.ok(seen.verdict && seen.date && seen.folded, JSON.stringify(seen));
+  assert.equal(seen.charts, 3);
+  assert.match(seen.link, /thermal\.html\?.*power=0\.4\+W/);
+  await page.screenshot({ path: path.join(OUT_DIR, 'thermal-print.png'), fullPage: true });
+  await context.close();
+});
+
 test('screenshots of thermal.html, light and dark, and of the chain path (for looking at)', async () => {
   for (const colorScheme of ['light', 'dark']) {
     const { context, page, requests, problems } = await open(browser, { colorScheme });
