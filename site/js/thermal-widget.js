@@ -284,12 +284,14 @@ export class RailnoteThermal extends CalculatorElement {
     const x0 = limit.length ? limit[0][0] : 0;
     const x1 = limit.length ? limit[limit.length - 1][0] : 1;
     const peak = Math.max(...limit.map((p) => p[1]), d.powerW || 0);
-    const top = peak * 1.12 || 1;
+    const top = peak * 1.15 || 1;
     const series = [];
     if (limit.length >= 2) {
       series.push({ kind: 'area', tone: 2, legend: false, points: [...limit, [x1, top * 10], [x0, top * 10]] });
       series.push({ kind: 'line', tone: 2, dash: 'dashdotdot', width: 2.5, points: limit,
-        label: 'Largest power with the junction exactly at its limit: too hot above it' });
+        label: d.ratingW === null || d.ratingW === undefined
+          ? 'Largest power with the junction exactly at its limit: too hot above it'
+          : 'Largest power with the junction exactly at its limit, capped by the rating: not allowed above it' });
     }
     if (withMargin.length >= 2) {
       series.push({ kind: 'line', tone: 1, dash: 'dashed', width: 2.5, points: withMargin,
@@ -302,20 +304,23 @@ export class RailnoteThermal extends CalculatorElement {
     series.push({ kind: 'marker', tone: 5, points: [[d.taMax, d.powerW]],
       label: `Operating point: ${this.fmt(d.powerW, 'power')} at ${this.fmt(d.taMax, 'temperature')}` });
     const notes = [];
-    if (limit.length >= 2) notes.push({ x: x1 - (x1 - x0) * 0.02, y: top * 0.92, text: 'too hot', anchor: 'end' });
+    if (limit.length >= 2) notes.push({ x: x1 - (x1 - x0) * 0.02, y: top * 0.93, text: d.ratingW === null || d.ratingW === undefined ? 'too hot' : 'too hot or over the rating', anchor: 'end' });
     const width = this.chartWidthNow();
     const chart = renderChart({
       width, height: Math.round(Math.min(360, Math.max(280, width * 0.5))),
       title: 'Derating: the largest power against ambient temperature',
       description: `Ambient from ${fmtAxis('temperature')(x0)} to ${fmtAxis('temperature')(x1)} across, power from 0 up. `
         + `The operating point is ${fmtAxis('power')(d.powerW)} at ${fmtAxis('temperature')(d.taMax)}. Verdict: ${VERDICT_WORDS[r.verdict] || r.verdict}.`,
+      margin: { left: 80 },
       x: { label: 'Ambient temperature', domain: [x0, x1], format: fmtAxis('temperature'), nice: false },
-      y: { label: 'Power', domain: [0, top], format: fmtAxis('power') },
+      y: { label: 'Power', domain: [0, top], format: fmtAxis('power'), nice: false },
       series,
       notes,
     });
     return this.figure('rn-derating', 'Derating', chart,
-      'The shaded area is beyond the junction limit. The operating point should sit below the margin line.');
+      d.ratingW === null || d.ratingW === undefined
+        ? 'The shaded area is beyond the junction limit. The operating point should sit below the margin line.'
+        : 'The shaded area is beyond the junction limit or the package rating. The operating point should sit below the margin line.');
   }
 
   transientBlock(r) {

@@ -193,6 +193,34 @@ test('a heat-sink chain: the θSA needed in words, and when none can do it', asy
   await context.close();
 });
 
+test('a board reading, a power rating and a power profile follow their equations', async () => {
+  const { context, page, problems } = await open(browser);
+  await page.goto(url('thermal.html?psi-jb=5%20K%2FW&board=90&power-rating=1%20W&p1=1%20W&d1=20%20ms&p2=0.2&d2=80m&periods=3'));
+  await settled(page, 'ready', TAG);
+  const r = await result(page, TAG);
+  // JESD51-12 ΨJB estimate: T_j ≈ T_b + ΨJB·P = 90 + 5·0.49 = 92.45 °C; the case-top one stays.
+  close(r.measured.fromBoardC, 92.45, REL, 'T_j from the board');
+  close(r.measured.fromCaseTopC, E.fromCaseTopC, REL, 'T_j from the case top');
+  assert.equal(await page.locator(`${TAG} [data-q="fromBoardC"]`).textContent(), '92.5 °C');
+  // The rating caps the derating curve: at −20 °C the junction would allow 1.45 W, the package 1 W.
+  assert.equal(r.derating.ratingW, 1);
+  close(r.derating.limit[0][1], 1, REL, 'derating capped by the rating');
+  assert.ok(r.derating.limit.every(([, pw]) => pw <= 1 + 1e-12), 'never above the rating');
+  // The profile (1 W for 20 ms, 0.2 W for 80 ms, three times) replaces the pulse in the series:
+  // each point is the stage-by-stage exponential update worked here.
+  const want = stepSeries(X.foster, [[1, 0.02], [0.2, 0.08]], 3, X.taMax);
+  assert.equal(r.transient.series.length, want.length);
+  r.transient.series.forEach(([time, tj], i) => {
+    close(time, want[i][0], REL, `profile series time ${i}`);
+    close(tj, want[i][1], REL, `profile series T_j ${i}`);
+  });
+  close(r.transient.seriesPeakC, Math.max(...want.map((q) => q[1])), REL, 'profile series peak');
+  // The profile holds text, so its folded rows are open.
+  assert.equal(await field(page, 'p1', TAG).isVisible(), true);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
 // The demo typed in other accepted spellings (SI prefixes, IEC 60062 letter code, units or none).
 const TYPED = {
   power: '490m', 'ta-max': '60C', 'ta-min': '-20', 'tj-max': '125 °C', margin: '15', path: 'ja',
