@@ -149,7 +149,7 @@ proptest! {
 
         // The highest V_in the heat allows, if it is a valid V_in,max.
         if let Some(v) = report.limits.vin_max_thermal {
-            if v >= input.vin_nom {
+            if v >= input.vin_nom && v < 1e5 {
                 let at_vin = LinearInput { vin_max: v, ..input.clone() };
                 prop_assert!(close(run(&at_vin).worst.tj_c, limit_tj, 1e-9));
             }
