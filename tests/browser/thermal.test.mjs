@@ -426,6 +426,32 @@ test('copy link and reset work as on every calculator', async () => {
   await context.close();
 });
 
+test('every thermal input has a label and existing descriptions; the stage rows are reached by Tab', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('thermal.html'));
+  await settled(page, 'ready', TAG);
+  const report = await page.evaluate((tag) => [...document.querySelectorAll(`${tag} .rn-inputs input, ${tag} .rn-inputs select`)].map((el) => ({
+    key: el.name,
+    label: el.labels.length ? el.labels[0].textContent.trim() : '',
+    described: (el.getAttribute('aria-describedby') || '').split(' ').filter(Boolean).map((id) => Boolean(document.getElementById(id))),
+  })), TAG);
+  // 6 limits + 5 path + 4 measured + 16 Foster cells + 4 pulse + 16 profile cells.
+  assert.equal(report.length, 51);
+  for (const r of report) {
+    assert.ok(r.label.length > 3, `${r.key} has a label: "${r.label}"`);
+    assert.ok(r.described.length >= 1 && r.described.every(Boolean), `${r.key} is described by existing elements`);
+  }
+  assert.equal(report.find((r) => r.key === 'tau2').label, 'Stage 2: time constant', 'a row cell says which row it is');
+  const ids = await page.evaluate(() => [...document.querySelectorAll('[id]')].map((e) => e.id));
+  assert.equal(new Set(ids).size, ids.length, 'no duplicate ids');
+  await field(page, 'r1', TAG).focus();
+  await page.keyboard.press('Tab');
+  assert.equal(await page.evaluate(() => document.activeElement.name), 'tau1', 'Tab goes along the row');
+  await page.keyboard.press('Tab');
+  assert.equal(await page.evaluate(() => document.activeElement.name), 'r2', 'then to the next row');
+  await context.close();
+});
+
 test('print shows the inputs, verdict, plots, link and date, and hides the buttons', async () => {
   const { context, page } = await open(browser);
   await page.goto(url('thermal.html?power=0.4%20W'));
