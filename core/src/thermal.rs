@@ -60,6 +60,8 @@ pub const MAX_PERIODS: u32 = 1000;
 pub const DEFAULT_PERIODS: u32 = 10;
 /// The longest time series returned; longer runs are computed in full but sampled.
 pub const MAX_SERIES_POINTS: usize = 4000;
+/// The most parts a profile step is split into for the plotted series.
+const MAX_PARTS_PER_STEP: usize = 12;
 /// Points of the Z_th(t) curve.
 const ZTH_POINTS: usize = 61;
 
@@ -179,6 +181,8 @@ pub struct Steady {
     pub hottest_ambient_c: Option<f64>,
     /// The largest θSA keeping the margin (chain only); negative when no heat sink can.
     pub theta_sa_needed_k_per_w: Option<f64>,
+    /// T_j,max − margin: the line the junction should stay under.
+    pub limit_with_margin_c: f64,
 }
 
 /// Junction estimates from measured temperatures.
@@ -631,7 +635,24 @@ impl ValidThermal {
             }
             _ => None,
         };
-        let rises = rise_series(stages, &self.profile, self.periods);
+        // Between step ends the stages move exponentially, and their sum can peak inside a
+        // step (fast stages cooling while slow ones still warm). Splitting each step into equal
+        // parts is exact (the same update, applied in parts), so the plot and its peak follow
+        // the real curve; the split is chosen to fill about MAX_SERIES_POINTS.
+        let steps = self.profile.len() * self.periods as usize;
+        let parts = (MAX_SERIES_POINTS / steps.max(1)).clamp(1, MAX_PARTS_PER_STEP);
+        let split: Vec<ProfileStep> = self
+            .profile
+            .iter()
+            .flat_map(|step| {
+                core::iter::repeat(ProfileStep {
+                    power_w: step.power_w,
+                    duration_s: step.duration_s / parts as f64,
+                })
+                .take(parts)
+            })
+            .collect();
+        let rises = rise_series(stages, &split, self.periods);
         let series_peak_rise = rises.iter().map(|p| p[1]).fold(0.0, f64::max);
         // Keep the plot light: sample long runs evenly, always keeping the last point.
         let stride = rises.len().div_ceil(MAX_SERIES_POINTS).max(1);
@@ -680,6 +701,7 @@ impl ValidThermal {
                     max_power_w: Some((limit_tj - x.ta_max) / theta),
                     hottest_ambient_c: Some(limit_tj - theta * x.power_w),
                     theta_sa_needed_k_per_w: theta_sa_needed,
+                    limit_with_margin_c: limit_tj,
                 }
             }
             None => Steady {
@@ -689,6 +711,7 @@ impl ValidThermal {
                 max_power_w: None,
                 hottest_ambient_c: None,
                 theta_sa_needed_k_per_w: theta_sa_needed,
+                limit_with_margin_c: limit_tj,
             },
         };
         if let (Some(tj), Some(theta)) = (steady.tj_c, steady.theta_total) {

@@ -279,7 +279,29 @@ fn transient_report_from_the_demo() {
     assert!(pulse.single_peak_c < pulse.train_peak_c);
     // The time series (10 periods from cold) never passes the settled peak.
     assert!(t.series_peak_c <= pulse.train_peak_c + 1e-9);
-    assert_eq!(t.series.len(), 21);
+    // 10 periods × 2 steps, each split in 12 for the plot (exact: the same update in parts):
+    // the step ends must equal the unsplit stepping.
+    assert_eq!(t.series.len(), 241);
+    let profile = [
+        ProfileStep {
+            power_w: 0.49,
+            duration_s: 0.05,
+        },
+        ProfileStep {
+            power_w: 0.0,
+            duration_s: 0.45,
+        },
+    ];
+    let step_ends = rise_series(&demo_network(), &profile, 10);
+    for (k, end) in step_ends.iter().enumerate() {
+        let point = t.series[12 * k];
+        assert!((point[0] - end[0]).abs() < 1e-12, "time at step end {k}");
+        assert!(
+            (point[1] - 60.0 - end[1]).abs() < 1e-9,
+            "rise at step end {k}"
+        );
+    }
+    assert_eq!(report.steady.limit_with_margin_c, 110.0);
     // Z_th rises monotonically towards ΣR.
     assert!(t
         .zth

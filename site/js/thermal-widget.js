@@ -132,12 +132,6 @@ export const FIELD_DEFS = GROUPS.flatMap((g) => g.fields);
 
 const FULL_PAGE = new URL('../thermal.html', import.meta.url).href;
 
-/** The temperature where a derating curve reaches zero power (the engine puts that point in). */
-function zeroPowerAmbient(points) {
-  const p = (points || []).find((q) => q[1] === 0);
-  return p ? p[0] : null;
-}
-
 export class RailnoteThermal extends CalculatorElement {
   static spec = {
     name: 'thermal',
@@ -394,13 +388,13 @@ export class RailnoteThermal extends CalculatorElement {
     const fmtAxis = (kind) => (v) => formatWith(api, v, kind, 3);
     const tEnd = s[s.length - 1][0];
     const limitC = this.values.tjMax;
-    const withMarginC = r.derating ? zeroPowerAmbient(r.derating.withMargin) : null;
+    const withMarginC = r.steady.limitWithMarginC;
     const temps = s.map((q) => q[1]);
     const lo = Math.min(...temps, this.values.taMax);
     const hi = Math.max(...temps, limitC);
     const series = [
       { kind: 'line', tone: 1, dash: 'solid', width: 2.5, points: s,
-        label: 'T_j(t) from a cold start at the hottest ambient (straight between the ends of the steps)' },
+        label: 'T_j(t) from a cold start at the hottest ambient' },
       { kind: 'line', tone: 2, dash: 'dashdotdot', width: 2.5, points: [[0, limitC], [tEnd, limitC]],
         label: `Junction limit ${this.fmt(limitC, 'temperature')}` },
     ];

@@ -31,10 +31,15 @@ const DEMO = {
 // - periodic train: ΔT_peak = P·Σ R_i(1 − e^(−t_on/τ_i))/(1 − e^(−T/τ_i)), the valley that times
 //   e^(−(T − t_on)/τ_i) per stage; average T_a + P·(t_on/T)·Σ R_i;
 // - the series: each stage's exact exponential over each constant-power step, from zero rise.
+//   For the plot core splits every step into equal parts (the same update applied in parts, so
+//   still exact): min(12, max(1, floor(4000 / (steps × repeats)))) parts, as core/src/thermal.rs
+//   documents; the hand work below splits the same way.
 function zth(t, foster = DEMO.foster) {
   return foster.reduce((s, [r, tau]) => s + r * (1 - Math.exp(-t / tau)), 0);
 }
-function stepSeries(foster, steps, repeats, taC) {
+function stepSeries(foster, wholeSteps, repeats, taC) {
+  const parts = Math.min(12, Math.max(1, Math.floor(4000 / (wholeSteps.length * repeats))));
+  const steps = wholeSteps.flatMap(([p, dt]) => Array.from({ length: parts }, () => [p, dt / parts]));
   const rise = foster.map(() => 0);
   const out = [[0, taC]];
   let t = 0;
@@ -92,7 +97,7 @@ function assertDemoNumbers(r) {
   close(t.pulse.trainPeakC, E.trainPeakC, REL, 'settled peak');
   close(t.pulse.trainValleyC, E.trainValleyC, REL, 'settled valley');
   close(t.pulse.averageC, E.averageC, REL, 'average');
-  assert.equal(t.series.length, E.series.length, 'one point per step end, plus the start');
+  assert.equal(t.series.length, E.series.length, 'one point per step part, plus the start');
   t.series.forEach(([time, tj], i) => {
     close(time, E.series[i][0], REL, `series time ${i}`);
     close(tj, E.series[i][1], REL, `series T_j ${i}`);
