@@ -5,6 +5,7 @@
 //! - [`units`]: reading quantities as engineers type them (engineering notation, SI prefixes,
 //!   the IEC 60062 RKM code) and writing them back in engineering notation.
 //! - [`error`]: the one input error type, naming the field and the reason.
+//! - [`fields`]: reading an input from named fields (a JS object, a JSON document).
 //! - [`verdict`]: pass / marginal / fail, shared by every calculator.
 //! - [`linear`]: the linear rail check.
 //! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
@@ -23,6 +24,7 @@ extern crate alloc;
 extern crate std;
 
 pub mod error;
+pub mod fields;
 pub mod linear;
 pub mod thermal;
 pub mod units;

@@ -42,6 +42,7 @@
 //! conservation of energy and Kirchhoff's current law at the regulator.
 
 use crate::error::{check, InputError};
+use crate::fields::{choice, required, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
 use crate::verdict::grade;
 pub use crate::verdict::Status;
@@ -58,8 +59,6 @@ const WINDOW_SAMPLES: usize = 40;
 
 /// How dropout depends on load current.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
 pub enum DropoutModel {
     /// MOS pass element: V_do = dropout_v · I / dropout_at_a.
     Resistive,
@@ -70,13 +69,9 @@ pub enum DropoutModel {
 }
 
 /// What the engineer knows about the rail. Voltages in V, currents in A, temperatures in °C,
-/// θJA in K/W, percentages as numbers of percent.
+/// θJA in K/W, percentages as numbers of percent. Read from named fields by
+/// [`LinearInput::read`]; the names are the camelCase forms of these.
 #[derive(Clone, Debug, PartialEq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(
-    feature = "serde",
-    serde(rename_all = "camelCase", deny_unknown_fields)
-)]
 pub struct LinearInput {
     pub vin_min: f64,
     pub vin_nom: f64,
@@ -103,11 +98,45 @@ pub struct LinearInput {
     pub headroom_margin_v: f64,
     pub thermal_margin_c: f64,
     /// Wanted efficiency at V_in,nom and typical load, if there is a requirement.
-    #[cfg_attr(feature = "serde", serde(default))]
     pub eff_min_pct: Option<f64>,
     /// The current the parent supply can give this rail, if it is limited.
-    #[cfg_attr(feature = "serde", serde(default))]
     pub input_budget_a: Option<f64>,
+}
+
+impl LinearInput {
+    /// Read the input from named fields (`vinMin`, `dropoutModel`, …).
+    pub fn read(f: &mut dyn FieldSource) -> Result<LinearInput, ReadError> {
+        Ok(LinearInput {
+            vin_min: required(f, "vinMin")?,
+            vin_nom: required(f, "vinNom")?,
+            vin_max: required(f, "vinMax")?,
+            vout: required(f, "vout")?,
+            vout_tol_pct: required(f, "voutTolPct")?,
+            iout_max: required(f, "ioutMax")?,
+            iout_typ: required(f, "ioutTyp")?,
+            iq: required(f, "iq")?,
+            gnd_pct: required(f, "gndPct")?,
+            dropout_model: choice(
+                f,
+                "dropoutModel",
+                &[
+                    ("resistive", DropoutModel::Resistive),
+                    ("constant", DropoutModel::Constant),
+                    ("classic", DropoutModel::Classic),
+                ],
+            )?,
+            dropout_v: required(f, "dropoutV")?,
+            dropout_at_a: required(f, "dropoutAtA")?,
+            rated_a: required(f, "ratedA")?,
+            theta_ja: required(f, "thetaJa")?,
+            ta_max: required(f, "taMax")?,
+            tj_max: required(f, "tjMax")?,
+            headroom_margin_v: required(f, "headroomMarginV")?,
+            thermal_margin_c: required(f, "thermalMarginC")?,
+            eff_min_pct: f.number("effMinPct")?,
+            input_budget_a: f.number("inputBudgetA")?,
+        })
+    }
 }
 
 /// Which check a [`Check`] reports.

@@ -44,6 +44,7 @@
 //! C·dθ/dt = P − θ/R over a step of constant P.
 
 use crate::error::{check, InputError};
+use crate::fields::{choice, count, required, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
 use crate::verdict::{grade, Status};
 use alloc::format;
@@ -67,8 +68,6 @@ const ZTH_POINTS: usize = 61;
 
 /// Which path the heat takes to the ambient.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
 pub enum HeatPath {
     /// θJA alone: the part on its board.
     Ja,
@@ -78,8 +77,6 @@ pub enum HeatPath {
 
 /// One stage of a Foster network.
 #[derive(Clone, Copy, Debug, PartialEq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(feature = "serde", serde(deny_unknown_fields))]
 pub struct FosterStage {
     /// K/W.
     pub r: f64,
@@ -89,23 +86,14 @@ pub struct FosterStage {
 
 /// One step of a piecewise-constant power profile.
 #[derive(Clone, Copy, Debug, PartialEq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(
-    feature = "serde",
-    serde(rename_all = "camelCase", deny_unknown_fields)
-)]
 pub struct ProfileStep {
     pub power_w: f64,
     pub duration_s: f64,
 }
 
-/// What the engineer knows about the part's heat. W, °C, K, K/W, s.
+/// What the engineer knows about the part's heat. W, °C, K, K/W, s. Read from named fields by
+/// [`ThermalInput::read`]; the names are the camelCase forms of these.
 #[derive(Clone, Debug, PartialEq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(
-    feature = "serde",
-    serde(rename_all = "camelCase", deny_unknown_fields)
-)]
 pub struct ThermalInput {
     pub power_w: f64,
     pub ta_max: f64,
@@ -113,36 +101,70 @@ pub struct ThermalInput {
     pub tj_max: f64,
     pub margin_c: f64,
     pub path: HeatPath,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub theta_ja: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub theta_jc: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub theta_cs: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub theta_sa: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub power_rating_w: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub psi_jt: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub case_top_c: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub psi_jb: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub board_c: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub foster: Vec<FosterStage>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub pulse_power_w: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub pulse_on_s: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub pulse_period_s: Option<f64>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub profile: Vec<ProfileStep>,
-    #[cfg_attr(feature = "serde", serde(default))]
     pub profile_periods: Option<u32>,
+}
+
+impl ThermalInput {
+    /// Read the input from named fields (`powerW`, `foster` as a list of `{r, tau}`, …).
+    pub fn read(f: &mut dyn FieldSource) -> Result<ThermalInput, ReadError> {
+        let mut foster = Vec::new();
+        f.each_object("foster", &mut |stage| {
+            foster.push(FosterStage {
+                r: required(stage, "r")?,
+                tau: required(stage, "tau")?,
+            });
+            Ok(())
+        })?;
+        let mut profile = Vec::new();
+        f.each_object("profile", &mut |step| {
+            profile.push(ProfileStep {
+                power_w: required(step, "powerW")?,
+                duration_s: required(step, "durationS")?,
+            });
+            Ok(())
+        })?;
+        Ok(ThermalInput {
+            power_w: required(f, "powerW")?,
+            ta_max: required(f, "taMax")?,
+            ta_min: required(f, "taMin")?,
+            tj_max: required(f, "tjMax")?,
+            margin_c: required(f, "marginC")?,
+            path: choice(
+                f,
+                "path",
+                &[("ja", HeatPath::Ja), ("chain", HeatPath::Chain)],
+            )?,
+            theta_ja: f.number("thetaJa")?,
+            theta_jc: f.number("thetaJc")?,
+            theta_cs: f.number("thetaCs")?,
+            theta_sa: f.number("thetaSa")?,
+            power_rating_w: f.number("powerRatingW")?,
+            psi_jt: f.number("psiJt")?,
+            case_top_c: f.number("caseTopC")?,
+            psi_jb: f.number("psiJb")?,
+            board_c: f.number("boardC")?,
+            foster,
+            pulse_power_w: f.number("pulsePowerW")?,
+            pulse_on_s: f.number("pulseOnS")?,
+            pulse_period_s: f.number("pulsePeriodS")?,
+            profile,
+            profile_periods: count(f, "profilePeriods")?,
+        })
+    }
 }
 
 /// Which check a [`ThermalCheck`] reports.

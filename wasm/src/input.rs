@@ -1,21 +1,18 @@
 //! Reading a calculator's input object from JavaScript.
 //!
-//! serde-wasm-bindgen's deserializer would do this, but its error type formats every unexpected
-//! value through serde's `Unexpected` display, which prints floats and escapes strings: that
-//! pulls core's float-printing and Unicode-printability tables into the module, about 20 KB
-//! before compression, a third of railnote's size budget, only to word error messages. So the
-//! input is first copied into a small [`Value`] tree and deserialised from there with serde's
-//! own `value` deserializers and an error type ([`InputReadError`]) that words unexpected
-//! values without printing them. Because every key of the object is visited, the input types'
-//! `deny_unknown_fields` refuses a misspelt key, which serde-wasm-bindgen (it looks up declared
-//! keys only) would silently ignore. Outputs still go through serde-wasm-bindgen's serializer.
+//! The object is first copied into a small [`Value`] tree (one pass over the JS heap, with a
+//! depth limit), then handed to the input type's `read` function through [`ObjectSource`],
+//! core's `FieldSource` over that tree. Errors carry the path to the value (`vinMin`,
+//! `foster[2].tau`) and say what kind of value was found, never the value itself. A key the
+//! input does not ask for (a misspelling) is refused, naming the keys it does ask for.
+//!
+//! Why not serde: serde-wasm-bindgen's deserializer words its errors through serde's
+//! `Unexpected`, which prints floats and escapes strings (about 17 KB of float-printing and
+//! Unicode tables), and the derived visitors cost 7–8 KB per input type (see
+//! `railnote_core::fields`), against a 64 KB budget for every calculator together.
 
-use core::fmt;
 use js_sys::{Array, Object};
-use serde::de::{
-    self, DeserializeOwned, DeserializeSeed, Deserializer, Expected, IntoDeserializer, MapAccess,
-    SeqAccess, Unexpected, Visitor,
-};
+use railnote_core::fields::{FieldSource, ReadError};
 use wasm_bindgen::{JsCast, JsValue};
 
 /// Nesting deeper than this is refused, so a hostile document cannot exhaust the stack.
@@ -25,7 +22,7 @@ const MAX_DEPTH: usize = 32;
 #[derive(Debug)]
 pub enum Value {
     Null,
-    Bool(bool),
+    Bool,
     Number(f64),
     Text(String),
     List(Vec<Value>),
@@ -47,8 +44,8 @@ impl Value {
         }
         if value.is_null() || value.is_undefined() {
             Value::Null
-        } else if let Some(b) = value.as_bool() {
-            Value::Bool(b)
+        } else if value.as_bool().is_some() {
+            Value::Bool
         } else if let Some(n) = value.as_f64() {
             Value::Number(n)
         } else if let Some(s) = value.as_string() {
@@ -73,258 +70,143 @@ impl Value {
             Value::Unsupported
         }
     }
+}
 
-    fn unexpected(&self) -> Unexpected<'_> {
-        match self {
-            Value::Null => Unexpected::Unit,
-            Value::Bool(b) => Unexpected::Bool(*b),
-            Value::Number(n) => Unexpected::Float(*n),
-            Value::Text(s) => Unexpected::Str(s),
-            Value::List(_) => Unexpected::Seq,
-            Value::Object(_) => Unexpected::Map,
-            Value::Unsupported | Value::TooDeep => Unexpected::Other("an unsupported value"),
+fn kind_of(value: &Value) -> &'static str {
+    match value {
+        Value::Null => "nothing (null)",
+        Value::Bool => "true or false",
+        Value::Number(_) => "a number",
+        Value::Text(_) => "text",
+        Value::List(_) => "a list",
+        Value::Object(_) => "an object",
+        Value::Unsupported => "a function, symbol or other value that no input takes",
+        Value::TooDeep => "values nested too deep",
+    }
+}
+
+/// Core's `FieldSource` over one object of the [`Value`] tree, remembering which keys were
+/// asked for and which entries were used.
+pub struct ObjectSource<'a> {
+    entries: &'a [(String, Value)],
+    used: Vec<bool>,
+    asked: Vec<&'static str>,
+    /// "" at the top, "foster[2]" inside a list item.
+    path: String,
+}
+
+impl<'a> ObjectSource<'a> {
+    fn new(value: &'a Value, path: String) -> Result<Self, ReadError> {
+        match value {
+            Value::Object(entries) => Ok(ObjectSource {
+                entries,
+                used: vec![false; entries.len()],
+                asked: Vec::new(),
+                path,
+            }),
+            other => Err(ReadError {
+                field: if path.is_empty() {
+                    "input".into()
+                } else {
+                    path.clone()
+                },
+                message: format!("expected an object, found {}", kind_of(other)),
+            }),
         }
     }
-}
 
-/// Why an input object could not be read, and where. Its message never prints the offending
-/// value, only what kind of value it was.
-#[derive(Debug)]
-pub struct InputReadError {
-    message: String,
-    /// Keys and list positions from the top, filled in as the error travels out.
-    path: Vec<PathStep>,
-}
-
-#[derive(Debug)]
-enum PathStep {
-    Key(String),
-    Index(usize),
-}
-
-impl InputReadError {
-    fn new(message: String) -> Self {
-        InputReadError {
-            message,
-            path: Vec::new(),
+    fn full(&self, key: &str) -> String {
+        if self.path.is_empty() {
+            key.to_string()
+        } else {
+            format!("{}.{key}", self.path)
         }
     }
 
-    fn inside(mut self, step: PathStep) -> Self {
-        self.path.push(step);
-        self
+    fn find(&mut self, key: &'static str) -> Option<&'a Value> {
+        self.asked.push(key);
+        let at = self.entries.iter().position(|(k, _)| k == key)?;
+        self.used[at] = true;
+        match &self.entries[at].1 {
+            Value::Null => None,
+            value => Some(value),
+        }
     }
 
-    /// `rails[2].name`, or `""` for the top level.
-    fn path(&self) -> String {
-        let mut out = String::new();
-        for step in self.path.iter().rev() {
-            match step {
-                PathStep::Key(k) if out.is_empty() => out.push_str(k),
-                PathStep::Key(k) => {
-                    out.push('.');
-                    out.push_str(k);
-                }
-                PathStep::Index(i) => {
-                    out.push('[');
-                    out.push_str(&i.to_string());
-                    out.push(']');
-                }
+    /// After reading: refuse the first entry nobody asked for.
+    fn finish(self) -> Result<(), ReadError> {
+        match self.used.iter().position(|used| !used) {
+            None => Ok(()),
+            Some(at) => {
+                let key: String = self.entries[at].0.chars().take(40).collect();
+                Err(ReadError {
+                    field: self.full(&key),
+                    message: format!(
+                        "unknown input key `{key}`; expected one of {}",
+                        self.asked.join(", ")
+                    ),
+                })
             }
         }
-        out
     }
 }
 
-impl fmt::Display for InputReadError {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        f.write_str(&self.message)
-    }
-}
-
-impl std::error::Error for InputReadError {}
-
-fn kind_of(unexpected: &Unexpected<'_>) -> &'static str {
-    match unexpected {
-        Unexpected::Bool(_) => "true or false",
-        Unexpected::Unsigned(_) | Unexpected::Signed(_) | Unexpected::Float(_) => "a number",
-        Unexpected::Char(_) | Unexpected::Str(_) => "text",
-        Unexpected::Unit | Unexpected::Option => "nothing (null)",
-        Unexpected::Seq => "a list",
-        Unexpected::Map => "an object",
-        _ => "another kind of value",
-    }
-}
-
-impl de::Error for InputReadError {
-    fn custom<T: fmt::Display>(message: T) -> Self {
-        InputReadError::new(message.to_string())
-    }
-
-    fn invalid_type(unexpected: Unexpected<'_>, expected: &dyn Expected) -> Self {
-        InputReadError::new(format!(
-            "expected {expected}, found {}",
-            kind_of(&unexpected)
-        ))
-    }
-
-    fn invalid_value(unexpected: Unexpected<'_>, expected: &dyn Expected) -> Self {
-        InputReadError::new(format!(
-            "expected {expected}, found {}",
-            kind_of(&unexpected)
-        ))
-    }
-}
-
-impl<'de> IntoDeserializer<'de, InputReadError> for Value {
-    type Deserializer = Value;
-    fn into_deserializer(self) -> Value {
-        self
-    }
-}
-
-impl<'de> Deserializer<'de> for Value {
-    type Error = InputReadError;
-
-    fn deserialize_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, InputReadError> {
-        match self {
-            Value::Null => visitor.visit_unit(),
-            Value::Bool(b) => visitor.visit_bool(b),
-            // Whole numbers go as integers so that count fields (u32) accept them; f64 fields
-            // accept integers too.
-            Value::Number(n) if n.fract() == 0.0 && n.abs() < 9.0e15 => visitor.visit_i64(n as i64),
-            Value::Number(n) => visitor.visit_f64(n),
-            Value::Text(s) => visitor.visit_string(s),
-            Value::List(items) => visitor.visit_seq(ListAccess {
-                items: items.into_iter().enumerate(),
-            }),
-            Value::Object(entries) => visitor.visit_map(ObjectAccess {
-                entries: entries.into_iter(),
-                pending: None,
-            }),
-            Value::Unsupported => Err(de::Error::custom(
-                "found a function, symbol or other value that no input takes",
-            )),
-            Value::TooDeep => Err(de::Error::custom(format!(
-                "nested more than {MAX_DEPTH} levels deep"
-            ))),
-        }
-    }
-
-    fn deserialize_option<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, InputReadError> {
-        match self {
-            Value::Null => visitor.visit_none(),
-            other => visitor.visit_some(other),
-        }
-    }
-
-    /// Structs are read from objects only. Without this the derived visitor's sequence form
-    /// (`visit_seq`, a struct written as a list) would be compiled in for every input type,
-    /// several KB each, for a spelling no caller uses.
-    fn deserialize_struct<V: Visitor<'de>>(
-        self,
-        _name: &'static str,
-        _fields: &'static [&'static str],
-        visitor: V,
-    ) -> Result<V::Value, InputReadError> {
-        match self {
-            Value::Object(entries) => visitor.visit_map(ObjectAccess {
-                entries: entries.into_iter(),
-                pending: None,
-            }),
-            other => Err(de::Error::invalid_type(other.unexpected(), &visitor)),
-        }
-    }
-
-    fn deserialize_enum<V: Visitor<'de>>(
-        self,
-        _name: &'static str,
-        _variants: &'static [&'static str],
-        visitor: V,
-    ) -> Result<V::Value, InputReadError> {
-        match self {
-            Value::Text(s) => visitor.visit_enum(s.into_deserializer()),
-            other => Err(de::Error::invalid_type(
-                other.unexpected(),
-                &"a choice given as text",
-            )),
-        }
-    }
-
-    serde::forward_to_deserialize_any! {
-        bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string bytes byte_buf
-        unit unit_struct newtype_struct seq tuple tuple_struct map identifier ignored_any
-    }
-}
-
-/// Hands a list's items to a visitor, marking an error with the item's position.
-struct ListAccess {
-    items: core::iter::Enumerate<std::vec::IntoIter<Value>>,
-}
-
-impl<'de> SeqAccess<'de> for ListAccess {
-    type Error = InputReadError;
-
-    fn next_element_seed<T: DeserializeSeed<'de>>(
-        &mut self,
-        seed: T,
-    ) -> Result<Option<T::Value>, InputReadError> {
-        match self.items.next() {
-            Some((i, value)) => seed
-                .deserialize(value)
-                .map(Some)
-                .map_err(|e| e.inside(PathStep::Index(i))),
+impl FieldSource for ObjectSource<'_> {
+    fn number(&mut self, key: &'static str) -> Result<Option<f64>, ReadError> {
+        match self.find(key) {
             None => Ok(None),
+            Some(Value::Number(n)) => Ok(Some(*n)),
+            Some(other) => {
+                Err(self.error(key, format!("expected a number, found {}", kind_of(other))))
+            }
+        }
+    }
+
+    fn text(&mut self, key: &'static str) -> Result<Option<String>, ReadError> {
+        match self.find(key) {
+            None => Ok(None),
+            Some(Value::Text(s)) => Ok(Some(s.clone())),
+            Some(other) => Err(self.error(key, format!("expected text, found {}", kind_of(other)))),
+        }
+    }
+
+    fn each_object(
+        &mut self,
+        key: &'static str,
+        item: &mut dyn FnMut(&mut dyn FieldSource) -> Result<(), ReadError>,
+    ) -> Result<(), ReadError> {
+        match self.find(key) {
+            None => Ok(()),
+            Some(Value::List(items)) => {
+                for (i, value) in items.iter().enumerate() {
+                    let mut source = ObjectSource::new(value, format!("{}[{i}]", self.full(key)))?;
+                    item(&mut source)?;
+                    source.finish()?;
+                }
+                Ok(())
+            }
+            Some(other) => {
+                Err(self.error(key, format!("expected a list, found {}", kind_of(other))))
+            }
+        }
+    }
+
+    fn error(&self, key: &str, message: String) -> ReadError {
+        ReadError {
+            field: self.full(key),
+            message,
         }
     }
 }
 
-/// Hands an object's entries to a visitor, marking an error with the entry's key.
-struct ObjectAccess {
-    entries: std::vec::IntoIter<(String, Value)>,
-    pending: Option<(String, Value)>,
-}
-
-impl<'de> MapAccess<'de> for ObjectAccess {
-    type Error = InputReadError;
-
-    fn next_key_seed<K: DeserializeSeed<'de>>(
-        &mut self,
-        seed: K,
-    ) -> Result<Option<K::Value>, InputReadError> {
-        let Some((key, value)) = self.entries.next() else {
-            return Ok(None);
-        };
-        let out = seed.deserialize(Value::Text(key.clone()))?;
-        self.pending = Some((key, value));
-        Ok(Some(out))
-    }
-
-    fn next_value_seed<V: DeserializeSeed<'de>>(
-        &mut self,
-        seed: V,
-    ) -> Result<V::Value, InputReadError> {
-        let (key, value) = self
-            .pending
-            .take()
-            .ok_or_else(|| <InputReadError as de::Error>::custom("a value without its key"))?;
-        seed.deserialize(value)
-            .map_err(|e| e.inside(PathStep::Key(key)))
-    }
-}
-
-/// Deserialise `T` from a JS value. On failure, the key the failure concerns (the path to the
-/// value, or the key serde names for a missing or unknown field) and a sentence.
-pub fn read<T: DeserializeOwned>(value: &JsValue) -> Result<T, (String, String)> {
-    T::deserialize(Value::from_js(value)).map_err(|e| {
-        let path = e.path();
-        let inner = e.message;
-        // A missing or unknown key fails at the object itself; serde names it in backticks.
-        let field = if path.is_empty() {
-            inner.split('`').nth(1).unwrap_or("input").to_string()
-        } else {
-            path
-        };
-        (field, inner)
-    })
+/// Read a calculator's input from a JS value with the input type's `read` function.
+pub fn read<T>(
+    value: &JsValue,
+    reader: fn(&mut dyn FieldSource) -> Result<T, ReadError>,
+) -> Result<T, ReadError> {
+    let tree = Value::from_js(value);
+    let mut source = ObjectSource::new(&tree, String::new())?;
+    let input = reader(&mut source)?;
+    source.finish()?;
+    Ok(input)
 }

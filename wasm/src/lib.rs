@@ -1,7 +1,8 @@
 //! railnote-wasm: the JavaScript face of railnote-core, and nothing else.
 //!
 //! Each calculator crosses the boundary once: one exported function takes a plain object and
-//! returns a plain object (inputs read by [`input`], outputs written by serde-wasm-bindgen's
+//! returns a plain object (inputs read by [`input`] through core's field readers, outputs
+//! written by serde-wasm-bindgen's
 //! JSON-compatible serializer so that absent values arrive as `null` and maps as plain objects). Every failure is a thrown JS
 //! `Error` built by [`field_error`]: its `message` is a sentence for the user and its `field`
 //! property names the input key it concerns, so a page can show the message at that field.
@@ -13,11 +14,11 @@
 
 mod input;
 
+use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
 use railnote_core::thermal::ThermalInput;
 use railnote_core::units::{self, QuantityKind};
 use railnote_core::InputError;
-use serde::de::DeserializeOwned;
 use serde::Serialize;
 use wasm_bindgen::prelude::*;
 
@@ -45,11 +46,14 @@ impl From<InputErrorJs> for JsValue {
 /// Core's error, carried to JS.
 struct InputErrorJs(InputError);
 
-/// Read a calculator's input object; a failure becomes a field error.
-fn read_input<T: DeserializeOwned>(value: JsValue) -> Result<T, JsValue> {
-    input::read(&value).map_err(|(field, message)| {
-        let field: String = field.chars().take(40).collect();
-        field_error(&field, &format!("{field}: {message}"))
+/// Read a calculator's input object with its `read` function; a failure becomes a field error.
+fn read_input<T>(
+    value: JsValue,
+    reader: fn(&mut dyn FieldSource) -> Result<T, ReadError>,
+) -> Result<T, JsValue> {
+    input::read(&value, reader).map_err(|e| {
+        let field: String = e.field.chars().take(60).collect();
+        field_error(&field, &format!("{field}: {}", e.message))
     })
 }
 
@@ -100,7 +104,7 @@ pub fn quantity_kinds() -> Vec<String> {
 /// site's reference page).
 #[wasm_bindgen(js_name = checkLinear)]
 pub fn check_linear(input: JsValue) -> Result<JsValue, JsValue> {
-    let input: LinearInput = read_input(input)?;
+    let input = read_input(input, LinearInput::read)?;
     let report = railnote_core::linear::check(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
@@ -109,7 +113,7 @@ pub fn check_linear(input: JsValue) -> Result<JsValue, JsValue> {
 /// Foster-network transients and pulse trains (fields in the site's reference page).
 #[wasm_bindgen(js_name = checkThermal)]
 pub fn check_thermal(input: JsValue) -> Result<JsValue, JsValue> {
-    let input: ThermalInput = read_input(input)?;
+    let input = read_input(input, ThermalInput::read)?;
     let report = railnote_core::thermal::check_thermal(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }

@@ -1,0 +1,169 @@
+//! The input readers: each input type reads its fields by name from any `FieldSource`.
+//! The source here is a plain list of keys and values; the wasm crate's JS-object source is
+//! checked through the bindings (wasm/tests/web.rs) and the browser tests.
+
+use railnote_core::fields::{FieldSource, ReadError};
+use railnote_core::linear::{DropoutModel, LinearInput};
+use railnote_core::thermal::{HeatPath, ThermalInput};
+
+#[derive(Clone, Debug)]
+enum V {
+    N(f64),
+    T(&'static str),
+    L(Vec<Vec<(&'static str, V)>>),
+}
+
+struct Source {
+    entries: Vec<(&'static str, V)>,
+    path: String,
+}
+
+impl FieldSource for Source {
+    fn number(&mut self, key: &'static str) -> Result<Option<f64>, ReadError> {
+        match self.entries.iter().find(|(k, _)| *k == key) {
+            None => Ok(None),
+            Some((_, V::N(n))) => Ok(Some(*n)),
+            Some(_) => Err(self.error(key, "expected a number".into())),
+        }
+    }
+    fn text(&mut self, key: &'static str) -> Result<Option<String>, ReadError> {
+        match self.entries.iter().find(|(k, _)| *k == key) {
+            None => Ok(None),
+            Some((_, V::T(t))) => Ok(Some(t.to_string())),
+            Some(_) => Err(self.error(key, "expected text".into())),
+        }
+    }
+    fn each_object(
+        &mut self,
+        key: &'static str,
+        item: &mut dyn FnMut(&mut dyn FieldSource) -> Result<(), ReadError>,
+    ) -> Result<(), ReadError> {
+        let Some((_, V::L(items))) = self.entries.iter().find(|(k, _)| *k == key).cloned() else {
+            return Ok(());
+        };
+        for (i, entries) in items.into_iter().enumerate() {
+            item(&mut Source {
+                entries,
+                path: format!("{key}[{i}]"),
+            })?;
+        }
+        Ok(())
+    }
+    fn error(&self, key: &str, message: String) -> ReadError {
+        let field = if self.path.is_empty() {
+            key.to_string()
+        } else {
+            format!("{}.{key}", self.path)
+        };
+        ReadError { field, message }
+    }
+}
+
+fn linear_entries() -> Vec<(&'static str, V)> {
+    use V::*;
+    vec![
+        ("vinMin", N(4.85)),
+        ("vinNom", N(5.0)),
+        ("vinMax", N(5.15)),
+        ("vout", N(3.3)),
+        ("voutTolPct", N(2.0)),
+        ("ioutMax", N(0.25)),
+        ("ioutTyp", N(0.03)),
+        ("iq", N(50e-6)),
+        ("gndPct", N(1.0)),
+        ("dropoutModel", T("classic")),
+        ("dropoutV", N(0.3)),
+        ("dropoutAtA", N(0.3)),
+        ("ratedA", N(0.3)),
+        ("thetaJa", N(100.0)),
+        ("taMax", N(60.0)),
+        ("tjMax", N(125.0)),
+        ("headroomMarginV", N(0.3)),
+        ("thermalMarginC", N(15.0)),
+        ("inputBudgetA", N(0.5)),
+    ]
+}
+
+fn read_linear(entries: Vec<(&'static str, V)>) -> Result<LinearInput, ReadError> {
+    LinearInput::read(&mut Source {
+        entries,
+        path: String::new(),
+    })
+}
+
+#[test]
+fn linear_reads_every_field_by_its_name() {
+    let x = read_linear(linear_entries()).expect("reads");
+    assert_eq!(
+        (x.vin_min, x.vin_max, x.thermal_margin_c),
+        (4.85, 5.15, 15.0)
+    );
+    assert_eq!(x.dropout_model, DropoutModel::Classic);
+    assert_eq!((x.eff_min_pct, x.input_budget_a), (None, Some(0.5)));
+}
+
+#[test]
+fn linear_reading_errors_name_the_field() {
+    let mut missing = linear_entries();
+    missing.retain(|(k, _)| *k != "tjMax");
+    let e = read_linear(missing).unwrap_err();
+    assert_eq!(
+        (e.field.as_str(), e.message.as_str()),
+        ("tjMax", "a number is needed here")
+    );
+
+    let mut bad_choice = linear_entries();
+    bad_choice[9].1 = V::T("quantum");
+    let e = read_linear(bad_choice).unwrap_err();
+    assert_eq!(e.field, "dropoutModel");
+    assert_eq!(
+        e.message,
+        r#"expected one of "resistive", "constant", "classic""#
+    );
+
+    let mut wrong_type = linear_entries();
+    wrong_type[0].1 = V::T("4.85 V");
+    assert_eq!(read_linear(wrong_type).unwrap_err().field, "vinMin");
+}
+
+#[test]
+fn thermal_reads_lists_and_counts() {
+    use V::*;
+    let stage = |r, tau| vec![("r", N(r)), ("tau", N(tau))];
+    let mut entries = vec![
+        ("powerW", N(0.49)),
+        ("taMax", N(60.0)),
+        ("taMin", N(-20.0)),
+        ("tjMax", N(125.0)),
+        ("marginC", N(15.0)),
+        ("path", T("ja")),
+        ("thetaJa", N(100.0)),
+        ("foster", L(vec![stage(2.0, 1e-3), stage(98.0, 2.0)])),
+        (
+            "profile",
+            L(vec![vec![("powerW", N(1.0)), ("durationS", N(0.02))]]),
+        ),
+        ("profilePeriods", N(7.0)),
+    ];
+    let read = |entries| {
+        ThermalInput::read(&mut Source {
+            entries,
+            path: String::new(),
+        })
+    };
+    let x = read(entries.clone()).expect("reads");
+    assert_eq!(x.path, HeatPath::Ja);
+    assert_eq!(x.foster.len(), 2);
+    assert_eq!((x.foster[1].r, x.foster[1].tau), (98.0, 2.0));
+    assert_eq!((x.profile[0].power_w, x.profile_periods), (1.0, Some(7)));
+    // A stage's missing τ is named by its path; a fractional count is refused.
+    entries[7].1 = L(vec![stage(2.0, 1e-3), vec![("r", N(98.0))]]);
+    assert_eq!(read(entries.clone()).unwrap_err().field, "foster[1].tau");
+    entries[7].1 = L(vec![]);
+    entries[9].1 = N(2.5);
+    let e = read(entries).unwrap_err();
+    assert_eq!(
+        (e.field.as_str(), e.message.as_str()),
+        ("profilePeriods", "expected a whole number")
+    );
+}
