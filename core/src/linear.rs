@@ -44,8 +44,8 @@
 use crate::error::{check, InputError};
 use crate::fields::{choice, required, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
-use crate::verdict::grade;
 pub use crate::verdict::Status;
+use crate::verdict::{grade, overall, titles_with};
 use alloc::format;
 use alloc::string::String;
 use alloc::vec::Vec;
@@ -151,16 +151,8 @@ pub enum CheckId {
     Budget,
 }
 
-/// One check, its outcome and the reason in words.
-#[derive(Clone, Debug, PartialEq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize))]
-#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
-pub struct Check {
-    pub id: CheckId,
-    pub title: String,
-    pub status: Status,
-    pub text: String,
-}
+/// One check of the rail, its outcome and the reason in words.
+pub type Check = crate::verdict::Check<CheckId>;
 
 /// The rail at one input voltage and one load.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -752,20 +744,8 @@ impl ValidLinear {
             });
         }
 
-        let verdict = checks
-            .iter()
-            .map(|c| c.status)
-            .max()
-            .unwrap_or(Status::Pass);
-        let titles = |status: Status| {
-            let names: Vec<&str> = checks
-                .iter()
-                .filter(|c| c.status == status)
-                .map(|c| c.title.as_str())
-                .collect();
-            // The titles are ASCII; ASCII lowering keeps Unicode case tables out of the module.
-            names.join(", ").to_ascii_lowercase()
-        };
+        let verdict = overall(&checks);
+        let titles = |status| titles_with(&checks, status);
         let summary = match verdict {
             Status::Pass => String::from("The rail passes every check in the worst case."),
             Status::Marginal => format!(

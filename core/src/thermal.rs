@@ -46,7 +46,7 @@
 use crate::error::{check, InputError};
 use crate::fields::{choice, count, required, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
-use crate::verdict::{grade, Status};
+use crate::verdict::{grade, overall, titles_with, Status};
 use alloc::format;
 use alloc::string::String;
 use alloc::vec::Vec;
@@ -179,16 +179,8 @@ pub enum ThermalCheckId {
     Board,
 }
 
-/// One check, its outcome and the reason in words.
-#[derive(Clone, Debug, PartialEq)]
-#[cfg_attr(feature = "serde", derive(serde::Serialize))]
-#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
-pub struct ThermalCheck {
-    pub id: ThermalCheckId,
-    pub title: String,
-    pub status: Status,
-    pub text: String,
-}
+/// One check of the thermal path, its outcome and the reason in words.
+pub type ThermalCheck = crate::verdict::Check<ThermalCheckId>;
 
 /// Steady-state results.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -910,19 +902,8 @@ impl ValidThermal {
             ));
         }
 
-        let verdict = checks
-            .iter()
-            .map(|c| c.status)
-            .max()
-            .unwrap_or(Status::Pass);
-        let names = |status: Status| {
-            let list: Vec<&str> = checks
-                .iter()
-                .filter(|c| c.status == status)
-                .map(|c| c.title.as_str())
-                .collect();
-            list.join(", ").to_ascii_lowercase()
-        };
+        let verdict = overall(&checks);
+        let names = |status| titles_with(&checks, status);
         let summary = match verdict {
             Status::Pass if checks.is_empty() => String::from("Nothing is checked yet."),
             Status::Pass => String::from("The junction stays within its limit and margin."),

@@ -1,4 +1,8 @@
-//! The outcome words every calculator shares.
+//! The outcome words every calculator shares: a status, one check with its reason, and the
+//! verdict of several checks.
+
+use alloc::string::String;
+use alloc::vec::Vec;
 
 /// Pass, marginal (works but misses a wanted margin) or fail. Ordered from best to worst, so the
 /// verdict of several checks is their maximum.
@@ -30,4 +34,35 @@ pub fn grade(value: f64, wanted_margin: f64) -> Status {
     } else {
         Status::Pass
     }
+}
+
+/// One check, its outcome and the reason in words; `Id` names the calculator's checks.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct Check<Id> {
+    pub id: Id,
+    pub title: String,
+    pub status: Status,
+    pub text: String,
+}
+
+/// The verdict of several checks: the worst of them, pass when there are none.
+pub fn overall<Id>(checks: &[Check<Id>]) -> Status {
+    checks
+        .iter()
+        .map(|c| c.status)
+        .max()
+        .unwrap_or(Status::Pass)
+}
+
+/// The titles of the checks with `status`, lower case and comma-separated, for a summary.
+pub fn titles_with<Id>(checks: &[Check<Id>], status: Status) -> String {
+    let names: Vec<&str> = checks
+        .iter()
+        .filter(|c| c.status == status)
+        .map(|c| c.title.as_str())
+        .collect();
+    // The titles are ASCII; ASCII lowering keeps Unicode case tables out of the module.
+    names.join(", ").to_ascii_lowercase()
 }
