@@ -69,17 +69,7 @@ fn browser() -> Result {
 
 fn native_vs_wasm() -> Result {
     header("bench 3/4: the same batch of linear checks, native and WASM (Node)");
-    let native = output(cargo().current_dir(repo_root()).args([
-        "run",
-        "--quiet",
-        "--release",
-        "-p",
-        "railnote-core",
-        "--example",
-        "bench_linear",
-        "--",
-        LINEAR_CHECKS,
-    ]))?;
+    let native = native_example("bench_linear", LINEAR_CHECKS)?;
     let wasm = output(
         Command::new("node")
             .args(["tests/bench/wasm_linear.mjs", LINEAR_CHECKS])
@@ -88,11 +78,10 @@ fn native_vs_wasm() -> Result {
     let (native, wasm) = (last_line(&native), last_line(&wasm));
     println!("native: {native}");
     println!("wasm:   {wasm}");
-    let field = |line: &str, key: &str| {
-        json_number(line, key).ok_or_else(|| format!("no {key} in {line:?}"))
-    };
-    let (native_ns, wasm_ns) = (field(native, "nsPerCheck")?, field(wasm, "nsPerCheck")?);
-    let (native_sum, wasm_sum) = (field(native, "checksum")?, field(wasm, "checksum")?);
+    let (native_ns, wasm_ns) = (
+        field_of(native, "nsPerCheck")?,
+        field_of(wasm, "nsPerCheck")?,
+    );
     println!(
         "per check: native {:.2} µs, WASM {:.2} µs: WASM takes {:.2}× the native time",
         native_ns / 1000.0,
@@ -101,29 +90,12 @@ fn native_vs_wasm() -> Result {
     );
     // Both sum the worst-case junction temperature over the batch; equal sums show equal inputs
     // and equal arithmetic (both use libm).
-    if ((native_sum - wasm_sum) / native_sum).abs() < 1e-12 {
-        println!("checksums agree ({native_sum}): both ran the same batch");
-    } else {
-        println!(
-            "WARNING: checksums differ (native {native_sum}, WASM {wasm_sum}): not the same batch"
-        );
-    }
-    Ok(())
+    compare_checksums(native, wasm)
 }
 
 fn thermal_series() -> Result {
     header("bench 4/4: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
-    let native = output(cargo().current_dir(repo_root()).args([
-        "run",
-        "--quiet",
-        "--release",
-        "-p",
-        "railnote-core",
-        "--example",
-        "bench_thermal",
-        "--",
-        THERMAL_CHECKS,
-    ]))?;
+    let native = native_example("bench_thermal", THERMAL_CHECKS)?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
     let wasm = output(
@@ -136,11 +108,11 @@ fn thermal_series() -> Result {
     let (native, wasm) = (last_line(&native), last_line(&wasm));
     println!("native:        {native}");
     println!("wasm-chromium: {wasm}");
-    let field = |line: &str, key: &str| {
-        json_number(line, key).ok_or_else(|| format!("no {key} in {line:?}"))
-    };
-    let (native_ns, wasm_ns) = (field(native, "nsPerCheck")?, field(wasm, "nsPerCheck")?);
-    let steps = field(native, "steps")?;
+    let (native_ns, wasm_ns) = (
+        field_of(native, "nsPerCheck")?,
+        field_of(wasm, "nsPerCheck")?,
+    );
+    let steps = field_of(native, "steps")?;
     println!(
         "per {steps:.0}-step series: native {:.3} ms, WASM in Chromium {:.3} ms: WASM takes {:.2}× \
          the native time ({:.0} ns vs {:.0} ns per step, report included)",
@@ -150,7 +122,32 @@ fn thermal_series() -> Result {
         native_ns / steps,
         wasm_ns / steps,
     );
-    let (native_sum, wasm_sum) = (field(native, "checksum")?, field(wasm, "checksum")?);
+    compare_checksums(native, wasm)
+}
+
+/// Run one of core's benchmark examples in release mode and return what it printed.
+fn native_example(name: &str, count: &str) -> Result<String> {
+    output(cargo().current_dir(repo_root()).args([
+        "run",
+        "--quiet",
+        "--release",
+        "-p",
+        "railnote-core",
+        "--example",
+        name,
+        "--",
+        count,
+    ]))
+}
+
+/// A number from a benchmark's JSON line, or an error naming what is missing.
+fn field_of(line: &str, key: &str) -> Result<f64> {
+    json_number(line, key).ok_or_else(|| format!("no {key} in {line:?}"))
+}
+
+/// Equal checksums show that native and WASM ran the same batch with the same arithmetic.
+fn compare_checksums(native: &str, wasm: &str) -> Result {
+    let (native_sum, wasm_sum) = (field_of(native, "checksum")?, field_of(wasm, "checksum")?);
     if ((native_sum - wasm_sum) / native_sum).abs() < 1e-12 {
         println!("checksums agree ({native_sum}): both ran the same batch");
     } else {
