@@ -20,7 +20,8 @@
 //!
 //! [`format_quantity`] writes a value in engineering notation: a mantissa between 1 and 999 with
 //! the chosen number of significant figures, an SI prefix stepping in powers of 1000, and the
-//! unit symbol (`12.3 mA`). Temperatures, percentages and thermal resistances take no prefix.
+//! unit symbol (`12.3 mA`). Temperatures, percentages, thermal resistances and temperature
+//! coefficients take no prefix; a count is written whole, without a prefix.
 //!
 //! # Sources
 //!
@@ -51,11 +52,17 @@ pub enum QuantityKind {
     Time,
     /// A percentage: "2 %" and "2" both give 2.0, not 0.02.
     Percent,
+    /// Electric charge in coulombs (gate charge, output-capacitance charge).
+    Charge,
+    /// A temperature coefficient in parts per million per kelvin (a resistor's TCR).
+    Tempco,
+    /// A whole number of things (samples, a seed): no unit, no fraction, not negative.
+    Count,
 }
 
 impl QuantityKind {
     /// Every kind, in a fixed order.
-    pub const ALL: [QuantityKind; 12] = [
+    pub const ALL: [QuantityKind; 15] = [
         QuantityKind::Voltage,
         QuantityKind::Current,
         QuantityKind::Resistance,
@@ -68,6 +75,9 @@ impl QuantityKind {
         QuantityKind::Inductance,
         QuantityKind::Time,
         QuantityKind::Percent,
+        QuantityKind::Charge,
+        QuantityKind::Tempco,
+        QuantityKind::Count,
     ];
 
     /// The kind's name as used across the API (`"voltage"`, `"thermalResistance"`).
@@ -85,6 +95,9 @@ impl QuantityKind {
             QuantityKind::Inductance => "inductance",
             QuantityKind::Time => "time",
             QuantityKind::Percent => "percent",
+            QuantityKind::Charge => "charge",
+            QuantityKind::Tempco => "tempco",
+            QuantityKind::Count => "count",
         }
     }
 
@@ -108,6 +121,9 @@ impl QuantityKind {
             QuantityKind::Inductance => "H",
             QuantityKind::Time => "s",
             QuantityKind::Percent => "%",
+            QuantityKind::Charge => "C",
+            QuantityKind::Tempco => "ppm/K",
+            QuantityKind::Count => "",
         }
     }
 
@@ -128,6 +144,9 @@ impl QuantityKind {
             QuantityKind::Inductance => &["H"],
             QuantityKind::Time => &["s"],
             QuantityKind::Percent => &["%"],
+            QuantityKind::Charge => &["C"],
+            QuantityKind::Tempco => &["ppm/K", "ppm/°C", "ppm/℃", "ppm/C", "ppm"],
+            QuantityKind::Count => &[],
         }
     }
 
@@ -152,6 +171,7 @@ impl QuantityKind {
                 | QuantityKind::TemperatureDifference
                 | QuantityKind::ThermalResistance
                 | QuantityKind::Percent
+                | QuantityKind::Tempco
         )
     }
 
@@ -170,6 +190,9 @@ impl QuantityKind {
             QuantityKind::Inductance => "an inductance",
             QuantityKind::Time => "a time",
             QuantityKind::Percent => "a percentage",
+            QuantityKind::Charge => "a charge",
+            QuantityKind::Tempco => "a temperature coefficient",
+            QuantityKind::Count => "a whole number",
         }
     }
 
@@ -188,6 +211,9 @@ impl QuantityKind {
             QuantityKind::Inductance => "4.7 µH or 10u",
             QuantityKind::Time => "20 ns or 1.5 ms",
             QuantityKind::Percent => "2 % or 0.5",
+            QuantityKind::Charge => "8 nC or 12n",
+            QuantityKind::Tempco => "100 ppm/K or 25",
+            QuantityKind::Count => "10000 or 100k",
         }
     }
 }
@@ -207,6 +233,8 @@ pub enum ParseProblem {
     OtherKind(QuantityKind),
     /// An SI prefix on a kind that takes none (°C, %, K/W).
     PrefixNotAllowed,
+    /// A count with a fraction or a sign.
+    NotWhole,
 }
 
 /// A text that could not be read as a quantity.
@@ -242,6 +270,12 @@ impl fmt::Display for ParseError {
                 f,
                 "that is {}; expected {} such as {}",
                 found.noun(),
+                want.noun(),
+                want.examples()
+            ),
+            ParseProblem::NotWhole => write!(
+                f,
+                "a count has no fraction and no sign; expected {} such as {}",
                 want.noun(),
                 want.examples()
             ),
@@ -317,6 +351,9 @@ pub fn parse_quantity(text: &str, kind: QuantityKind) -> Result<f64, ParseError>
             None => return Err(fail(first)),
         },
     };
+    if kind == QuantityKind::Count && (value < 0.0 || value != libm::floor(value)) {
+        return Err(fail(ParseProblem::NotWhole));
+    }
     // Normalise -0 to 0 so that nothing downstream prints "-0".
     Ok(if value == 0.0 { 0.0 } else { value })
 }
@@ -597,6 +634,15 @@ pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
     }
     let symbol = kind.symbol();
     let magnitude = libm::fabs(value);
+    // A count is written whole, every digit, without a prefix ("12345", not "12.3 k"), up to
+    // where an f64 stops holding every integer.
+    if kind == QuantityKind::Count && magnitude < 1e15 {
+        if value < 0.0 && libm::round(magnitude) != 0.0 {
+            out.push('-');
+        }
+        push_fixed(&mut out, magnitude, 0);
+        return out;
+    }
     if magnitude == 0.0 {
         out.push('0');
     } else {
@@ -632,12 +678,16 @@ pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
             .iter()
             .find(|(p, _)| *p == power)
             .map_or("", |(_, s)| *s);
-        out.push(' ');
+        if !(prefix.is_empty() && symbol.is_empty()) {
+            out.push(' ');
+        }
         out.push_str(prefix);
         out.push_str(symbol);
         return out;
     }
-    out.push(' ');
+    if !symbol.is_empty() {
+        out.push(' ');
+    }
     out.push_str(symbol);
     out
 }

@@ -55,6 +55,29 @@ fn iec_60062_rkm_code() {
 }
 
 #[test]
+fn charges_tempcos_and_counts() {
+    // Gate charge in coulombs with SI prefixes (SI Brochure table 7); TCR in ppm/K, where
+    // 1 ppm/K = 1 ppm/°C because a kelvin step is a degree-Celsius step; counts are whole.
+    let cases: &[(&str, QuantityKind, f64)] = &[
+        ("8 nC", Charge, 8e-9),
+        ("12n", Charge, 12e-9),
+        ("1.5 µC", Charge, 1.5e-6),
+        ("100 ppm/K", Tempco, 100.0),
+        ("25 ppm/°C", Tempco, 25.0),
+        ("50ppm", Tempco, 50.0),
+        ("-200", Tempco, -200.0),
+        ("10000", Count, 10_000.0),
+        ("100k", Count, 100_000.0),
+        ("1M", Count, 1_000_000.0),
+        ("1e6", Count, 1_000_000.0),
+        ("0", Count, 0.0),
+    ];
+    for &(text, kind, value) in cases {
+        check(text, kind, Ok(value));
+    }
+}
+
+#[test]
 fn si_prefixes_and_units() {
     // SI Brochure (BIPM, 9th edition), table 7: the prefixes and their powers of ten.
     let cases: &[(&str, QuantityKind, f64)] = &[
@@ -135,6 +158,11 @@ fn everything_else_is_refused_with_a_reason() {
         ("5 mK/W", ThermalResistance, PrefixNotAllowed),
         ("2 k%", Percent, PrefixNotAllowed),
         ("85 m°C", Temperature, PrefixNotAllowed),
+        ("5 kppm/K", Tempco, PrefixNotAllowed),
+        ("2.5", Count, NotWhole),
+        ("-3", Count, NotWhole),
+        ("10m", Count, NotWhole),
+        ("10 V", Count, OtherKind(Voltage)),
         ("<script>alert(1)</script>", Voltage, NotANumber),
         ("<img src=x onerror=alert(1)>", Voltage, NotANumber),
         (&long, Voltage, TooLong),
@@ -182,6 +210,11 @@ fn engineering_notation_output() {
         (1e-13, Current, 3, "100 fA"),
         (1e-18, Current, 3, "0.00100 fA"),
         (5e15, Voltage, 2, "5000 TV"),
+        (8e-9, Charge, 2, "8.0 nC"),
+        (100.0, Tempco, 3, "100 ppm/K"),
+        (12345.0, Count, 3, "12345"),
+        (1_000_000.0, Count, 1, "1000000"),
+        (0.0, Count, 3, "0"),
         (f64::NAN, Voltage, 3, "—"),
         (f64::INFINITY, Voltage, 3, "—"),
     ];
@@ -207,6 +240,9 @@ fn formatted_values_read_back() {
         (65.3, Percent),
         (100.0, ThermalResistance),
         (-0.0004, Current),
+        (8.2e-9, Charge),
+        (25.0, Tempco),
+        (4096.0, Count),
     ] {
         let text = format_quantity(value, kind, 6);
         let back = parse_quantity(&text, kind).unwrap_or_else(|e| panic!("{text}: {e}"));
