@@ -68,13 +68,23 @@ pub fn choice<T: Copy>(
     key: &'static str,
     options: &[(&str, T)],
 ) -> Result<T, ReadError> {
+    optional_choice(source, key, options)?
+        .ok_or_else(|| source.error(key, expected_one_of(options)))
+}
+
+/// One of a fixed set of words, if given.
+pub fn optional_choice<T: Copy>(
+    source: &mut dyn FieldSource,
+    key: &'static str,
+    options: &[(&str, T)],
+) -> Result<Option<T>, ReadError> {
     let Some(word) = source.text(key)? else {
-        return Err(source.error(key, expected_one_of(options)));
+        return Ok(None);
     };
     options
         .iter()
         .find(|(name, _)| *name == word)
-        .map(|(_, value)| *value)
+        .map(|(_, value)| Some(*value))
         .ok_or_else(|| source.error(key, expected_one_of(options)))
 }
 

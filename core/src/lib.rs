@@ -7,7 +7,10 @@
 //! - [`error`]: the one input error type, naming the field and the reason.
 //! - [`fields`]: reading an input from named fields (a JS object, a JSON document).
 //! - [`verdict`]: pass / marginal / fail, shared by every calculator.
+//! - [`series`]: the IEC 60063 preferred-number series E3 to E192.
 //! - [`linear`]: the linear rail check.
+//! - [`divider`]: the divider picker: feedback and threshold dividers from standard values,
+//!   with worst case, root-sum-square spread and a seeded Monte Carlo yield.
 //! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
 //!   derating, Foster-network transients and pulse trains.
 //!
@@ -23,9 +26,11 @@ extern crate alloc;
 #[cfg(feature = "std")]
 extern crate std;
 
+pub mod divider;
 pub mod error;
 pub mod fields;
 pub mod linear;
+pub mod series;
 pub mod thermal;
 pub mod units;
 pub mod verdict;

@@ -14,6 +14,7 @@
 
 mod input;
 
+use railnote_core::divider::DividerInput;
 use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
 use railnote_core::thermal::ThermalInput;
@@ -115,6 +116,15 @@ pub fn check_linear(input: JsValue) -> Result<JsValue, JsValue> {
 pub fn check_thermal(input: JsValue) -> Result<JsValue, JsValue> {
     let input = read_input(input, ThermalInput::read)?;
     let report = railnote_core::thermal::check_thermal(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// The divider picker: feedback search, reverse (two given resistors) and threshold dividers,
+/// with worst case, RSS spread and seeded Monte Carlo (fields in the site's reference page).
+#[wasm_bindgen(js_name = checkDivider)]
+pub fn check_divider(input: JsValue) -> Result<JsValue, JsValue> {
+    let input = read_input(input, DividerInput::read)?;
+    let report = railnote_core::divider::check_divider(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
 
