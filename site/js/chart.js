@@ -488,3 +488,180 @@ export function renderChart(spec) {
   }
   return { svg, legend };
 }
+
+// ---- Histograms and range bars (added for the divider picker) ----
+//
+// Both reuse the scales and ticks above. renderHistogram draws a Monte Carlo histogram on the
+// same axes, legend and colours as renderChart (it is renderChart with the bars added beneath
+// the marks); renderRangeBars draws horizontal bars between a low and a high value per row, all
+// on one value axis around a centre line (a tornado-style chart of contributions).
+
+/**
+ * The bars of an equal-width histogram { lo, hi, counts }: [{ x0, x1, count }] left to right.
+ * A degenerate range is widened (saneDomain); counts that are not finite non-negative numbers
+ * count as zero. No counts, no bars.
+ */
+export function histogramBins(histogram) {
+  const counts = histogram && Array.isArray(histogram.counts) ? histogram.counts : [];
+  if (!counts.length) return [];
+  const [lo, hi] = saneDomain([histogram.lo, histogram.hi]);
+  const w = (hi - lo) / counts.length;
+  return counts.map((c, i) => ({
+    x0: lo + i * w,
+    x1: i === counts.length - 1 ? hi : lo + (i + 1) * w,
+    count: Number.isFinite(Number(c)) && Number(c) > 0 ? Number(c) : 0,
+  }));
+}
+
+/**
+ * Draw a histogram. Returns { svg, legend } as renderChart does.
+ *
+ * spec = {
+ *   width, height, title, description, margin,
+ *   histogram: { lo, hi, counts: [n, …] },          // equal-width bins over [lo, hi]
+ *   barLabel: 'legend words for the bars', barTone,
+ *   x: { label, format }, y: { label, format },    // the x domain is the histogram's own range
+ *   marks: [ { id, value, label, tone, dash, width } ],   // vertical lines (window edges, mean)
+ *   shade: [ { from, to, label, tone, legend } ],          // shaded x ranges (outside the window)
+ * }
+ * Each bar is a <rect class="rn-hist-bar"> with data-count; each mark's path carries data-mark
+ * = its id, so a test or a reader of the DOM can find the window edges.
+ */
+export function renderHistogram(spec) {
+  const bins = histogramBins(spec.histogram);
+  const lo = bins.length ? bins[0].x0 : 0;
+  const hi = bins.length ? bins[bins.length - 1].x1 : 1;
+  const peak = Math.max(1, ...bins.map((b) => b.count));
+  const tall = peak * 4;
+  const series = [];
+  const ids = [];
+  for (const s of spec.shade || []) {
+    series.push({ kind: 'area', tone: s.tone || 2, label: s.label, legend: s.legend,
+      points: [[s.from, 0], [s.to, 0], [s.to, tall], [s.from, tall]] });
+    ids.push(null);
+  }
+  // The bars are drawn below; this entry only gives them a legend line.
+  series.push({ kind: 'area', tone: spec.barTone || 1, label: spec.barLabel || 'samples per bin', points: [] });
+  ids.push(null);
+  for (const m of spec.marks || []) {
+    series.push({ kind: 'line', tone: m.tone || 4, dash: m.dash || 'dashed', width: m.width || 2, label: m.label,
+      points: [[m.value, 0], [m.value, tall]] });
+    ids.push(m.id || null);
+  }
+  const chartSpec = {
+    ...spec,
+    x: { ...(spec.x || {}), domain: [lo, hi], nice: false },
+    y: { ...(spec.y || {}), domain: [0, peak * 1.1] },
+    series,
+  };
+  const L = layoutChart(chartSpec);
+  const { svg, legend } = renderChart(chartSpec);
+  svg.classList.add('rn-histogram');
+  const body = svg.querySelector('g[clip-path]');
+  // renderChart appends one child per marker series and one per series with path data, in order.
+  const drawn = L.series.map((s, i) => ({ s, id: ids[i] })).filter(({ s }) => s.kind === 'marker' || s.d);
+  const children = [...body.children];
+  drawn.forEach(({ id }, k) => { if (id && children[k]) children[k].setAttribute('data-mark', id); });
+  const bars = el('g', { class: `rn-hist-bars rn-tone-${spec.barTone || 1}` });
+  const y0 = L.y.scale(0);
+  for (const b of bins) {
+    const xa = L.x.scale(b.x0);
+    const xb = L.x.scale(b.x1);
+    const yc = L.y.scale(b.count);
+    bars.append(el('rect', {
+      class: 'rn-hist-bar', 'data-count': String(b.count),
+      x: num(xa + 0.5), y: num(yc), width: num(Math.max(0.5, xb - xa - 1)), height: num(Math.max(0, y0 - yc)),
+    }));
+  }
+  const firstMark = drawn.findIndex(({ s }) => s.kind === 'line');
+  body.insertBefore(bars, firstMark >= 0 ? children[firstMark] : null);
+  return { svg, legend };
+}
+
+/**
+ * Layout of horizontal range bars, without the DOM. spec = { width, rows: [{ label, low, high }],
+ * center, format, labelWidth, rowHeight }. Returns { width, height, rect, scale, ticks, rows }
+ * with each row's pixel extent (x0 ≤ x1, whatever the order of low and high) and the centre's
+ * position. The domain spans every low, high and the centre, padded by a twentieth each side.
+ */
+export function layoutRangeBars(spec) {
+  const width = spec.width || 640;
+  const rowHeight = spec.rowHeight || 30;
+  const labelWidth = spec.labelWidth || Math.min(220, Math.round(width * 0.34));
+  const rows = spec.rows || [];
+  const values = rows.flatMap((r) => [Number(r.low), Number(r.high)]).concat([Number(spec.center)])
+    .filter(Number.isFinite);
+  let [lo, hi] = saneDomain(values.length ? [Math.min(...values), Math.max(...values)] : [0, 1]);
+  const pad = (hi - lo) / 20;
+  lo -= pad;
+  hi += pad;
+  const rect = { x0: labelWidth, x1: Math.max(labelWidth + 10, width - 16), y0: 8, y1: 8 + rows.length * rowHeight };
+  const height = rect.y1 + 42;
+  const scale = makeScale('linear', [lo, hi], [rect.x0, rect.x1]);
+  const format = typeof spec.format === 'function' ? spec.format : plainLabel;
+  const ticks = linearTicks([lo, hi], Math.max(2, Math.floor((rect.x1 - rect.x0) / 110)))
+    .map((v) => ({ value: v, pos: scale(v), label: safeLabel(format, v) }));
+  const laid = rows.map((r, i) => {
+    const a = scale(Number(r.low));
+    const b = scale(Number(r.high));
+    const ok = Number.isFinite(a) && Number.isFinite(b);
+    return {
+      ...r,
+      y: rect.y0 + i * rowHeight + rowHeight * 0.2,
+      h: rowHeight * 0.6,
+      x0: ok ? Math.min(a, b) : NaN,
+      x1: ok ? Math.max(a, b) : NaN,
+      lowPos: a,
+      highPos: b,
+    };
+  });
+  return { width, height, rect, scale, ticks, rows: laid, centerPos: scale(Number(spec.center)), rowHeight };
+}
+
+/**
+ * Draw horizontal range bars (spec as for layoutRangeBars, plus title, description and
+ * centerLabel). Each bar is split at the centre: the part below it in tone 1, the part above in
+ * tone 2, and the two ends carry a small tick so the bars read without colour. Returns the <svg>.
+ */
+export function renderRangeBars(spec) {
+  const L = layoutRangeBars(spec);
+  const svg = el('svg', {
+    viewBox: `0 0 ${L.width} ${L.height}`, role: 'img', 'aria-label': spec.title || 'range bars',
+    class: 'rn-chart rn-range-bars', preserveAspectRatio: 'xMidYMid meet',
+  });
+  svg.append(el('title', {}, spec.title || 'range bars'));
+  if (spec.description) svg.append(el('desc', {}, spec.description));
+  const { rect } = L;
+  svg.append(el('rect', { class: 'rn-chart-plot', x: rect.x0, y: rect.y0, width: rect.x1 - rect.x0, height: rect.y1 - rect.y0 }));
+  const grid = el('g', { class: 'rn-chart-grid', 'aria-hidden': 'true' });
+  for (const t of L.ticks) grid.append(el('line', { x1: t.pos, x2: t.pos, y1: rect.y0, y2: rect.y1 }));
+  svg.append(grid);
+  const axes = el('g', { class: 'rn-chart-axes' });
+  axes.append(el('line', { x1: rect.x0, x2: rect.x1, y1: rect.y1, y2: rect.y1 }));
+  for (const t of L.ticks) {
+    axes.append(el('line', { x1: t.pos, x2: t.pos, y1: rect.y1, y2: rect.y1 + 5 }));
+    axes.append(el('text', { x: t.pos, y: rect.y1 + 18, 'text-anchor': 'middle' }, t.label));
+  }
+  if (spec.axisLabel) axes.append(el('text', { class: 'rn-axis-label', x: (rect.x0 + rect.x1) / 2, y: L.height - 6, 'text-anchor': 'middle' }, spec.axisLabel));
+  for (const r of L.rows) {
+    axes.append(el('text', { x: rect.x0 - 8, y: r.y + r.h / 2 + 4, 'text-anchor': 'end' }, r.label));
+  }
+  svg.append(axes);
+  const bars = el('g', { class: 'rn-range-rows' });
+  const c = L.centerPos;
+  for (const r of L.rows) {
+    if (!Number.isFinite(r.x0)) continue;
+    const g = el('g', { class: 'rn-range-row', 'data-id': r.id || '' });
+    const below = [r.x0, Math.min(r.x1, c)];
+    const above = [Math.max(r.x0, c), r.x1];
+    if (below[1] > below[0]) g.append(el('rect', { class: 'rn-range-bar rn-tone-1', x: num(below[0]), y: num(r.y), width: num(below[1] - below[0]), height: num(r.h) }));
+    if (above[1] > above[0]) g.append(el('rect', { class: 'rn-range-bar rn-tone-2', x: num(above[0]), y: num(r.y), width: num(above[1] - above[0]), height: num(r.h) }));
+    for (const x of [r.x0, r.x1]) g.append(el('line', { class: 'rn-range-end', x1: num(x), x2: num(x), y1: num(r.y - 3), y2: num(r.y + r.h + 3) }));
+    bars.append(g);
+  }
+  svg.append(bars);
+  if (Number.isFinite(c)) {
+    svg.append(el('line', { class: 'rn-range-center', x1: num(c), x2: num(c), y1: rect.y0, y2: rect.y1, 'stroke-dasharray': DASHES.dashed }));
+  }
+  return svg;
+}

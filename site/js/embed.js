@@ -1,5 +1,5 @@
 // The iframe embed page: one calculator, compact, prefilled from the query (?calc=linear&vin-min=…,
-// ?calc=thermal&power=…).
+// ?calc=thermal&power=…, ?calc=divider&vout-target=…).
 // Reports its height to the parent page so a host script can size the iframe; hosts that allow no
 // script give the iframe a fixed height (see linear.html#embed).
 import { h, reportEmbedHeight } from './common.js';
@@ -7,6 +7,7 @@ import { h, reportEmbedHeight } from './common.js';
 const CALCULATORS = {
   linear: { tag: 'railnote-linear', module: './linear-widget.js', title: 'Linear rail check' },
   thermal: { tag: 'railnote-thermal', module: './thermal-widget.js', title: 'Thermal path' },
+  divider: { tag: 'railnote-divider', module: './divider-widget.js', title: 'Divider picker' },
 };
 
 const root = document.getElementById('embed-root');

@@ -89,6 +89,7 @@ const BOUND_WORDS = {
 
 const FULL_PAGE = new URL('../linear.html', import.meta.url).href;
 const THERMAL_PAGE = new URL('../thermal.html', import.meta.url).href;
+const DIVIDER_PAGE = new URL('../divider.html', import.meta.url).href;
 
 export class RailnoteLinear extends CalculatorElement {
   static spec = {
@@ -125,6 +126,7 @@ export class RailnoteLinear extends CalculatorElement {
     parts.push(this.limitsBlock(r));
     parts.push(this.cornersBlock(r));
     parts.push(this.thermalCarryOver(r));
+    parts.push(this.dividerCarryOver());
     parts.push(this.windowBlock(r));
     return parts;
   }
@@ -155,6 +157,26 @@ export class RailnoteLinear extends CalculatorElement {
     return h('p', { class: 'rn-carry' },
       h('a', { href: this.thermalLink(r), class: 'rn-thermal-link', 'data-carry': 'thermal' }, 'Check the thermal path'),
       ` of this rail: opens the thermal path calculator with its worst-case dissipation (${this.fmt(r.worst.powerW, 'power')}), θJA, hottest ambient, junction limit and thermal margin, for a heat sink, a measured case temperature or a pulsed load.`);
+  }
+
+  /**
+   * A link to the divider picker with this rail's output voltage as the target and its tolerance
+   * as the window, both exactly as typed, in feedback mode; the picker's other inputs keep its
+   * demo values.
+   */
+  dividerLink() {
+    const text = (key) => this.fieldByKey(key).input.value;
+    return shareLink(DIVIDER_PAGE, new Map([
+      ['mode', 'feedback'],
+      ['vout-target', text('vout')],
+      ['window', text('vout-tol')],
+    ]));
+  }
+
+  dividerCarryOver() {
+    return h('p', { class: 'rn-carry' },
+      h('a', { href: this.dividerLink(), class: 'rn-divider-link', 'data-carry': 'divider' }, 'Pick the divider for this output'),
+      `: opens the divider picker with ${this.fmt(this.values.vout, 'voltage', 4)} as the target and ±${this.fmt(this.values.voutTolPct, 'percent', 3)} as the window, to choose the feedback resistors from standard values with their worst case.`);
   }
 
   limitsBlock(r) {
