@@ -60,7 +60,7 @@
 //! space-efficient statistically good algorithms for random number generation" (2014).
 
 use crate::error::{check, InputError};
-use crate::fields::{count, optional_choice, FieldSource, ReadError};
+use crate::fields::{count, numbers, optional_choice, FieldSource, ReadError};
 use crate::series::Series;
 use crate::units::{format_quantity, QuantityKind};
 use crate::verdict::{overall, titles_with, Status};
@@ -186,58 +186,102 @@ impl DividerInput {
                 ("threshold", Mode::Threshold),
             ],
         )?;
+        let topology = optional_choice(
+            f,
+            "topology",
+            &[
+                ("feedback", Topology::Feedback),
+                ("adjust", Topology::Adjust),
+            ],
+        )?;
+        let series_top = optional_choice(f, "seriesTop", &SERIES_NAMES)?;
+        let series_bottom = optional_choice(f, "seriesBottom", &SERIES_NAMES)?;
+        let mc_distribution = optional_choice(
+            f,
+            "mcDistribution",
+            &[
+                ("normal", Distribution::Normal),
+                ("uniform", Distribution::Uniform),
+            ],
+        )?;
+        let [limit, pick, mc_samples, mc_seed] = [
+            count(f, "limit")?,
+            count(f, "pick")?,
+            count(f, "mcSamples")?,
+            count(f, "mcSeed")?,
+        ];
+        let [tol_top_pct, tol_bottom_pct, tcr_top_ppm, tcr_bottom_ppm, temp_min, temp_max, r_min, r_max, current_min, current_max, window_pct, vout_min, vout_max, vref, vref_tol_pct, pin_current_min, pin_current_max, vout_target, r_top, r_bottom, pin_rise, pin_fall, pin_tol_pct, current_off, current_on, current_tol_pct, v_start, v_stop] =
+            numbers(
+                f,
+                &[
+                    "tolTopPct",
+                    "tolBottomPct",
+                    "tcrTopPpm",
+                    "tcrBottomPpm",
+                    "tempMin",
+                    "tempMax",
+                    "rMin",
+                    "rMax",
+                    "currentMin",
+                    "currentMax",
+                    "windowPct",
+                    "voutMin",
+                    "voutMax",
+                    "vref",
+                    "vrefTolPct",
+                    "pinCurrentMin",
+                    "pinCurrentMax",
+                    "voutTarget",
+                    "rTop",
+                    "rBottom",
+                    "pinRise",
+                    "pinFall",
+                    "pinTolPct",
+                    "currentOff",
+                    "currentOn",
+                    "currentTolPct",
+                    "vStart",
+                    "vStop",
+                ],
+            )?;
         Ok(DividerInput {
             mode,
-            topology: optional_choice(
-                f,
-                "topology",
-                &[
-                    ("feedback", Topology::Feedback),
-                    ("adjust", Topology::Adjust),
-                ],
-            )?,
-            series_top: optional_choice(f, "seriesTop", &SERIES_NAMES)?,
-            series_bottom: optional_choice(f, "seriesBottom", &SERIES_NAMES)?,
-            tol_top_pct: f.number("tolTopPct")?,
-            tol_bottom_pct: f.number("tolBottomPct")?,
-            tcr_top_ppm: f.number("tcrTopPpm")?,
-            tcr_bottom_ppm: f.number("tcrBottomPpm")?,
-            temp_min: f.number("tempMin")?,
-            temp_max: f.number("tempMax")?,
-            r_min: f.number("rMin")?,
-            r_max: f.number("rMax")?,
-            current_min: f.number("currentMin")?,
-            current_max: f.number("currentMax")?,
-            window_pct: f.number("windowPct")?,
-            vout_min: f.number("voutMin")?,
-            vout_max: f.number("voutMax")?,
-            limit: count(f, "limit")?,
-            pick: count(f, "pick")?,
-            vref: f.number("vref")?,
-            vref_tol_pct: f.number("vrefTolPct")?,
-            pin_current_min: f.number("pinCurrentMin")?,
-            pin_current_max: f.number("pinCurrentMax")?,
-            vout_target: f.number("voutTarget")?,
-            r_top: f.number("rTop")?,
-            r_bottom: f.number("rBottom")?,
-            mc_samples: count(f, "mcSamples")?,
-            mc_seed: count(f, "mcSeed")?,
-            mc_distribution: optional_choice(
-                f,
-                "mcDistribution",
-                &[
-                    ("normal", Distribution::Normal),
-                    ("uniform", Distribution::Uniform),
-                ],
-            )?,
-            pin_rise: f.number("pinRise")?,
-            pin_fall: f.number("pinFall")?,
-            pin_tol_pct: f.number("pinTolPct")?,
-            current_off: f.number("currentOff")?,
-            current_on: f.number("currentOn")?,
-            current_tol_pct: f.number("currentTolPct")?,
-            v_start: f.number("vStart")?,
-            v_stop: f.number("vStop")?,
+            topology,
+            series_top,
+            series_bottom,
+            tol_top_pct,
+            tol_bottom_pct,
+            tcr_top_ppm,
+            tcr_bottom_ppm,
+            temp_min,
+            temp_max,
+            r_min,
+            r_max,
+            current_min,
+            current_max,
+            window_pct,
+            vout_min,
+            vout_max,
+            limit,
+            pick,
+            vref,
+            vref_tol_pct,
+            pin_current_min,
+            pin_current_max,
+            vout_target,
+            r_top,
+            r_bottom,
+            mc_samples,
+            mc_seed,
+            mc_distribution,
+            pin_rise,
+            pin_fall,
+            pin_tol_pct,
+            current_off,
+            current_on,
+            current_tol_pct,
+            v_start,
+            v_stop,
         })
     }
 }
@@ -518,20 +562,24 @@ struct Found {
     warnings: Vec<String>,
 }
 
+#[inline(never)]
 fn show(value: f64, kind: QuantityKind) -> String {
     format_quantity(value, kind, 3)
 }
 
 /// Four figures, for voltages that a window of a few percent separates.
+#[inline(never)]
 fn show4(value: f64) -> String {
     format_quantity(value, QuantityKind::Voltage, 4)
 }
 
+#[inline(never)]
 fn needed(field: &'static str, label: &str, value: Option<f64>) -> Result<f64, InputError> {
     value.ok_or_else(|| InputError::new(field, format!("{label} is needed")))
 }
 
 /// Finite and within `low..=high`, for ranges wider than [`check::LIMIT`] (resistances).
+#[inline(never)]
 fn in_range(
     field: &'static str,
     label: &str,
@@ -1312,6 +1360,25 @@ fn current_fit(current: f64, min: f64, max: f64) -> (CurrentFit, f64) {
     (fit, libm::fabs(libm::log(current / libm::sqrt(min * max))))
 }
 
+/// What candidates are ranked by: |error|, distance of the current from the middle of its
+/// range, series rank; ties keep the order of discovery.
+type RankKey = (f64, f64, usize);
+
+/// `items` sorted by `keys` (one key per item). One sort of indices serves every kind of
+/// candidate, so the module carries one sort routine, not one per candidate type.
+fn in_rank_order<T>(items: Vec<T>, keys: &[RankKey]) -> Vec<T> {
+    let mut order: Vec<usize> = (0..items.len()).collect();
+    order.sort_unstable_by(|&a, &b| {
+        let (x, y) = (keys[a], keys[b]);
+        x.0.total_cmp(&y.0)
+            .then(x.1.total_cmp(&y.1))
+            .then(x.2.cmp(&y.2))
+            .then(a.cmp(&b))
+    });
+    let mut slots: Vec<Option<T>> = items.into_iter().map(Some).collect();
+    order.into_iter().filter_map(|k| slots[k].take()).collect()
+}
+
 /// The coarser of the two values' series, for ranking: E3 first, none last.
 fn series_rank(a: Option<Series>, b: Option<Series>) -> usize {
     let rank = |s: Option<Series>| s.map_or(Series::ALL.len(), |s| s as usize);
@@ -1394,7 +1461,8 @@ impl ValidDivider {
         }
         let i_mid = (self.pin_min + self.pin_max) / 2.0;
         let mut searched = 0u32;
-        let mut ranked: Vec<(f64, f64, usize, Candidate)> = Vec::new();
+        let mut ranked: Vec<Candidate> = Vec::new();
+        let mut keys: Vec<RankKey> = Vec::new();
         // The closest pair seen whatever its current, and the closest in current, for the
         // message when nothing qualifies.
         let mut closest: Option<Candidate> = None;
@@ -1433,21 +1501,19 @@ impl ValidDivider {
                 if in_current && in_window {
                     let (_, distance) =
                         current_fit(c.sense_current, self.current_min, self.current_max);
-                    let rank = series_rank(c.series_top, c.series_bottom);
-                    ranked.push((libm::fabs(c.error_pct), distance, rank, c));
+                    keys.push((
+                        libm::fabs(c.error_pct),
+                        distance,
+                        series_rank(c.series_top, c.series_bottom),
+                    ));
+                    ranked.push(c);
                 }
             }
         }
         if ranked.is_empty() {
             return Err(self.why_no_candidate(any_current, closest));
         }
-        ranked.sort_by(|a, b| {
-            a.0.total_cmp(&b.0)
-                .then(a.1.total_cmp(&b.1))
-                .then(a.2.cmp(&b.2))
-                .then(a.3.r_top.total_cmp(&b.3.r_top))
-        });
-        Ok((ranked.into_iter().map(|r| r.3).collect(), searched))
+        Ok((in_rank_order(ranked, &keys), searched))
     }
 
     fn why_no_candidate(&self, any_current: bool, closest: Option<Candidate>) -> InputError {
@@ -1875,24 +1941,17 @@ impl ValidDivider {
                 }
             }
         }
-        let key = |c: &ThresholdCandidate| {
-            libm::fabs(c.start_error_pct).max(libm::fabs(c.stop_error_pct))
-        };
-        found.sort_by(|a, b| {
-            key(a)
-                .total_cmp(&key(b))
-                .then(
-                    current_fit(a.current_at_start, self.current_min, self.current_max)
-                        .1
-                        .total_cmp(
-                            &current_fit(b.current_at_start, self.current_min, self.current_max).1,
-                        ),
+        let keys: Vec<RankKey> = found
+            .iter()
+            .map(|c| {
+                (
+                    libm::fabs(c.start_error_pct).max(libm::fabs(c.stop_error_pct)),
+                    current_fit(c.current_at_start, self.current_min, self.current_max).1,
+                    series_rank(c.series_top, c.series_bottom),
                 )
-                .then(
-                    series_rank(a.series_top, a.series_bottom)
-                        .cmp(&series_rank(b.series_top, b.series_bottom)),
-                )
-        });
+            })
+            .collect();
+        let mut found = in_rank_order(found, &keys);
         found.truncate(self.limit);
         Ok(Found {
             candidates: Vec::new(),

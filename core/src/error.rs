@@ -44,6 +44,7 @@ pub(crate) mod check {
 
     /// A limit as a message shows it: up to four significant figures, without trailing zeros
     /// ("0.001 K/W", not "0.001000 K/W"); limits are round numbers.
+    #[inline(never)]
     pub fn show(value: f64, kind: QuantityKind) -> alloc::string::String {
         let text = format_quantity(value, kind, 4);
         let Some((number, unit)) = text.split_once(' ') else {
@@ -57,6 +58,7 @@ pub(crate) mod check {
     }
 
     /// A finite number no larger in magnitude than [`LIMIT`].
+    #[inline(never)]
     pub fn finite(
         field: &'static str,
         label: &str,
@@ -79,6 +81,7 @@ pub(crate) mod check {
     }
 
     /// Strictly above `low`.
+    #[inline(never)]
     pub fn above(
         field: &'static str,
         label: &str,
@@ -98,6 +101,7 @@ pub(crate) mod check {
     }
 
     /// At least `low`.
+    #[inline(never)]
     pub fn at_least(
         field: &'static str,
         label: &str,
@@ -117,6 +121,7 @@ pub(crate) mod check {
     }
 
     /// Within `low..=high`.
+    #[inline(never)]
     pub fn within(
         field: &'static str,
         label: &str,

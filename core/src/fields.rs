@@ -51,6 +51,32 @@ pub fn required(source: &mut dyn FieldSource, key: &'static str) -> Result<f64, 
     }
 }
 
+/// The numbers under `keys`, in order, each `None` when absent. One loop for a whole input
+/// instead of one inlined call per field: a calculator with 30 fields reads in a few hundred
+/// bytes of WebAssembly rather than several kilobytes.
+pub fn numbers<const N: usize>(
+    source: &mut dyn FieldSource,
+    keys: &[&'static str; N],
+) -> Result<[Option<f64>; N], ReadError> {
+    let mut out = [None; N];
+    for (slot, key) in out.iter_mut().zip(keys) {
+        *slot = source.number(key)?;
+    }
+    Ok(out)
+}
+
+/// The numbers under `keys`, in order, every one of them required.
+pub fn required_numbers<const N: usize>(
+    source: &mut dyn FieldSource,
+    keys: &[&'static str; N],
+) -> Result<[f64; N], ReadError> {
+    let mut out = [0.0; N];
+    for (slot, key) in out.iter_mut().zip(keys) {
+        *slot = required(source, key)?;
+    }
+    Ok(out)
+}
+
 /// A whole count (0 ..= u32::MAX), if given.
 pub fn count(source: &mut dyn FieldSource, key: &'static str) -> Result<Option<u32>, ReadError> {
     match source.number(key)? {

@@ -42,7 +42,7 @@
 //! conservation of energy and Kirchhoff's current law at the regulator.
 
 use crate::error::{check, InputError};
-use crate::fields::{choice, required, FieldSource, ReadError};
+use crate::fields::{choice, numbers, required_numbers, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
 pub use crate::verdict::Status;
 use crate::verdict::{grade, overall, titles_with};
@@ -106,35 +106,60 @@ pub struct LinearInput {
 impl LinearInput {
     /// Read the input from named fields (`vinMin`, `dropoutModel`, …).
     pub fn read(f: &mut dyn FieldSource) -> Result<LinearInput, ReadError> {
-        Ok(LinearInput {
-            vin_min: required(f, "vinMin")?,
-            vin_nom: required(f, "vinNom")?,
-            vin_max: required(f, "vinMax")?,
-            vout: required(f, "vout")?,
-            vout_tol_pct: required(f, "voutTolPct")?,
-            iout_max: required(f, "ioutMax")?,
-            iout_typ: required(f, "ioutTyp")?,
-            iq: required(f, "iq")?,
-            gnd_pct: required(f, "gndPct")?,
-            dropout_model: choice(
+        let dropout_model = choice(
+            f,
+            "dropoutModel",
+            &[
+                ("resistive", DropoutModel::Resistive),
+                ("constant", DropoutModel::Constant),
+                ("classic", DropoutModel::Classic),
+            ],
+        )?;
+        let [vin_min, vin_nom, vin_max, vout, vout_tol_pct, iout_max, iout_typ, iq, gnd_pct, dropout_v, dropout_at_a, rated_a, theta_ja, ta_max, tj_max, headroom_margin_v, thermal_margin_c] =
+            required_numbers(
                 f,
-                "dropoutModel",
                 &[
-                    ("resistive", DropoutModel::Resistive),
-                    ("constant", DropoutModel::Constant),
-                    ("classic", DropoutModel::Classic),
+                    "vinMin",
+                    "vinNom",
+                    "vinMax",
+                    "vout",
+                    "voutTolPct",
+                    "ioutMax",
+                    "ioutTyp",
+                    "iq",
+                    "gndPct",
+                    "dropoutV",
+                    "dropoutAtA",
+                    "ratedA",
+                    "thetaJa",
+                    "taMax",
+                    "tjMax",
+                    "headroomMarginV",
+                    "thermalMarginC",
                 ],
-            )?,
-            dropout_v: required(f, "dropoutV")?,
-            dropout_at_a: required(f, "dropoutAtA")?,
-            rated_a: required(f, "ratedA")?,
-            theta_ja: required(f, "thetaJa")?,
-            ta_max: required(f, "taMax")?,
-            tj_max: required(f, "tjMax")?,
-            headroom_margin_v: required(f, "headroomMarginV")?,
-            thermal_margin_c: required(f, "thermalMarginC")?,
-            eff_min_pct: f.number("effMinPct")?,
-            input_budget_a: f.number("inputBudgetA")?,
+            )?;
+        let [eff_min_pct, input_budget_a] = numbers(f, &["effMinPct", "inputBudgetA"])?;
+        Ok(LinearInput {
+            vin_min,
+            vin_nom,
+            vin_max,
+            vout,
+            vout_tol_pct,
+            iout_max,
+            iout_typ,
+            iq,
+            gnd_pct,
+            dropout_model,
+            dropout_v,
+            dropout_at_a,
+            rated_a,
+            theta_ja,
+            ta_max,
+            tj_max,
+            headroom_margin_v,
+            thermal_margin_c,
+            eff_min_pct,
+            input_budget_a,
         })
     }
 }

@@ -44,7 +44,7 @@
 //! C·dθ/dt = P − θ/R over a step of constant P.
 
 use crate::error::{check, InputError};
-use crate::fields::{choice, count, required, FieldSource, ReadError};
+use crate::fields::{choice, count, numbers, required, required_numbers, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
 use crate::verdict::{grade, overall, titles_with, Status};
 use alloc::format;
@@ -137,30 +137,51 @@ impl ThermalInput {
             });
             Ok(())
         })?;
-        Ok(ThermalInput {
-            power_w: required(f, "powerW")?,
-            ta_max: required(f, "taMax")?,
-            ta_min: required(f, "taMin")?,
-            tj_max: required(f, "tjMax")?,
-            margin_c: required(f, "marginC")?,
-            path: choice(
+        let path = choice(
+            f,
+            "path",
+            &[("ja", HeatPath::Ja), ("chain", HeatPath::Chain)],
+        )?;
+        let [power_w, ta_max, ta_min, tj_max, margin_c] =
+            required_numbers(f, &["powerW", "taMax", "taMin", "tjMax", "marginC"])?;
+        let [theta_ja, theta_jc, theta_cs, theta_sa, power_rating_w, psi_jt, case_top_c, psi_jb, board_c, pulse_power_w, pulse_on_s, pulse_period_s] =
+            numbers(
                 f,
-                "path",
-                &[("ja", HeatPath::Ja), ("chain", HeatPath::Chain)],
-            )?,
-            theta_ja: f.number("thetaJa")?,
-            theta_jc: f.number("thetaJc")?,
-            theta_cs: f.number("thetaCs")?,
-            theta_sa: f.number("thetaSa")?,
-            power_rating_w: f.number("powerRatingW")?,
-            psi_jt: f.number("psiJt")?,
-            case_top_c: f.number("caseTopC")?,
-            psi_jb: f.number("psiJb")?,
-            board_c: f.number("boardC")?,
+                &[
+                    "thetaJa",
+                    "thetaJc",
+                    "thetaCs",
+                    "thetaSa",
+                    "powerRatingW",
+                    "psiJt",
+                    "caseTopC",
+                    "psiJb",
+                    "boardC",
+                    "pulsePowerW",
+                    "pulseOnS",
+                    "pulsePeriodS",
+                ],
+            )?;
+        Ok(ThermalInput {
+            power_w,
+            ta_max,
+            ta_min,
+            tj_max,
+            margin_c,
+            path,
+            theta_ja,
+            theta_jc,
+            theta_cs,
+            theta_sa,
+            power_rating_w,
+            psi_jt,
+            case_top_c,
+            psi_jb,
+            board_c,
             foster,
-            pulse_power_w: f.number("pulsePowerW")?,
-            pulse_on_s: f.number("pulseOnS")?,
-            pulse_period_s: f.number("pulsePeriodS")?,
+            pulse_power_w,
+            pulse_on_s,
+            pulse_period_s,
             profile,
             profile_periods: count(f, "profilePeriods")?,
         })

@@ -14,6 +14,14 @@
 
 mod input;
 
+/// The allocator for the module: talc instead of the standard library's dlmalloc, for size
+/// (railnote's module has a 64 KiB gzip budget; dlmalloc's malloc/free/realloc were about 7 KB
+/// of it). The module is single-threaded (no `atomics` target feature), which this allocator
+/// form requires; its constructor is safe.
+#[cfg(all(not(target_feature = "atomics"), target_family = "wasm"))]
+#[global_allocator]
+static ALLOCATOR: talc::wasm::WasmDynamicTalc = talc::wasm::new_wasm_dynamic_allocator();
+
 use railnote_core::divider::DividerInput;
 use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
