@@ -8,12 +8,14 @@
 //!   V = V_x·(1 + R_set/R_sense) + I_pin·R_set,
 //!
 //! where R_sense carries the reference (or pin threshold) V_x and R_set carries the sense current
-//! V_x/R_sense plus the pin current I_pin (positive flowing from the divider node into the pin):
+//! V_x/R_sense plus the pin current I_pin, signed the way datasheets give it, so that a positive
+//! pin current raises V:
 //!
 //! - feedback pin, reference to ground: R_sense = R_bot, R_set = R_top:
-//!   V_out = V_ref·(1 + R_top/R_bot) + I_fb·R_top;
+//!   V_out = V_ref·(1 + R_top/R_bot) + I_fb·R_top, I_fb positive flowing into the FB pin;
 //! - reference between the output and an adjust pin: R_sense = R1 (output to adjust, the upper
-//!   resistor), R_set = R2 (adjust to ground): V_out = V_ref·(1 + R2/R1) + I_adj·R2;
+//!   resistor), R_set = R2 (adjust to ground): V_out = V_ref·(1 + R2/R1) + I_adj·R2, I_adj
+//!   positive flowing out of the ADJ pin into R2;
 //! - threshold divider from the input to an enable / undervoltage pin (R_top input to pin,
 //!   R_bot pin to ground): V_start = V_rise·(1 + R_top/R_bot) + I_off·R_top and
 //!   V_stop = V_fall·(1 + R_top/R_bot) + I_on·R_top, with I_off and I_on the pin currents while
@@ -119,8 +121,8 @@ pub enum Distribution {
     Uniform,
 }
 
-/// What the engineer asks. Voltages in V, currents in A (pin currents signed, positive into
-/// the pin), resistances in Ω, temperatures in °C, tolerances in ± percent, TCR in ± ppm/K.
+/// What the engineer asks. Voltages in V, currents in A (pin currents signed: positive into a
+/// feedback or enable pin, out of an adjust pin, the directions that raise V), resistances in Ω, temperatures in °C, tolerances in ± percent, TCR in ± ppm/K.
 /// Keys are the camelCase forms; every key is read in every mode and the keys a mode does not
 /// use are ignored, so a page can send all its fields.
 #[derive(Clone, Debug, PartialEq)]

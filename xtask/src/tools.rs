@@ -1,6 +1,7 @@
 //! Finds, and where it can installs, the tools the pipeline needs. A fresh machine has none of
 //! them beyond Rust, Node and npm: the wasm32 target, the wasm-bindgen CLI at exactly the crate's
-//! version, npm's binaryen and playwright-core, and Debian's chromium, chromium-driver and ngspice.
+//! version, npm's binaryen and playwright-core, Debian's chromium, chromium-driver and ngspice,
+//! and the PyPI package `eseries` (the reference for the IEC 60063 series).
 
 use crate::util::{self, probe, run, Result};
 use std::env;
@@ -12,6 +13,8 @@ use std::time::SystemTime;
 pub const WASM_TARGET: &str = "wasm32-unknown-unknown";
 pub const CHROMIUM: &str = "/usr/bin/chromium";
 pub const CHROMEDRIVER: &str = "/usr/bin/chromedriver";
+/// The `eseries` release the series cross-check was written against.
+pub const ESERIES_VERSION: &str = "1.2.1";
 
 /// Where `cargo install` puts binaries: CARGO_INSTALL_ROOT, else CARGO_HOME, else ~/.cargo.
 fn cargo_bin_dir() -> Option<PathBuf> {
@@ -58,12 +61,61 @@ pub fn ensure_bench_tools() -> Result {
     ensure_build_tools()
 }
 
-/// The tools `test` needs: the build tools plus rustfmt, the browser and ngspice.
+/// The tools `test` needs: the build tools plus rustfmt, the browser, ngspice and eseries.
 pub fn ensure_test_tools() -> Result {
     ensure_system_packages()?;
     ensure_build_tools()?;
     ensure_rustfmt()?;
+    ensure_python_packages()?;
     Ok(())
+}
+
+/// The installed version of a Python distribution, if any.
+fn python_package_version(name: &str) -> Option<String> {
+    let script = format!("import importlib.metadata as m; print(m.version('{name}'))");
+    probe("python3", &["-c", script.as_str()]).map(|v| v.trim().to_string())
+}
+
+/// `eseries` from PyPI at [`ESERIES_VERSION`], installed with pip when missing or different.
+fn ensure_python_packages() -> Result {
+    util::header("tools: checking PyPI packages (eseries)");
+    if !util::on_path("python3") {
+        if !is_root() {
+            return Err("python3 is needed for the eseries cross-check:                         `sudo apt-get install -y python3 python3-pip`"
+                .into());
+        }
+        apt_install(&["python3", "python3-pip"])?;
+    }
+    let wanted = format!("eseries=={ESERIES_VERSION}");
+    if python_package_version("eseries").as_deref() == Some(ESERIES_VERSION) {
+        println!("ok: {wanted}");
+        return Ok(());
+    }
+    println!("installing {wanted} with pip");
+    let pip = |extra: &[&str]| {
+        run(Command::new("python3")
+            .args([
+                "-m",
+                "pip",
+                "install",
+                "--quiet",
+                "--disable-pip-version-check",
+            ])
+            .args(extra)
+            .arg(&wanted)
+            .stdin(std::process::Stdio::null()))
+    };
+    // A Debian-managed Python refuses plain installs (PEP 668); the package is pure Python and
+    // only the tests import it, so fall back to installing it beside the system's packages.
+    pip(&[])
+        .or_else(|_| pip(&["--break-system-packages"]))
+        .map_err(|e| format!("{e}. Install by hand: `python3 -m pip install {wanted}`"))?;
+    match python_package_version("eseries") {
+        Some(v) if v == ESERIES_VERSION => Ok(()),
+        other => Err(format!(
+            "pip ran but eseries is {other:?}, not {ESERIES_VERSION}: `python3 -m pip install {wanted}`"
+        )),
+    }
 }
 
 pub fn is_root() -> bool {

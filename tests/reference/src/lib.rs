@@ -1,11 +1,13 @@
 //! railnote-reference: cross-checks of railnote-core against references outside the project.
 //!
-//! The only reference here is ngspice (Debian package `ngspice`), run as a separate program in
-//! batch mode. [`spice`] writes the electrical analogue of a Foster network as a SPICE deck, runs
-//! a transient analysis and reads the junction node back; the integration tests under `tests/`
-//! compare that with core. The crate depends on nothing but core, so the reference stays away
-//! from core's own dependencies.
+//! The references are programs run beside the tests, never linked in: ngspice (Debian package
+//! `ngspice`) in batch mode, and Python with the PyPI package `eseries`. [`spice`] writes the
+//! electrical analogue of a Foster network as a SPICE deck, runs a transient analysis and reads
+//! the junction node back; [`oppoint`] runs DC operating points of any netlist (the divider
+//! tests use it). The integration tests under `tests/` compare those with core. The crate
+//! depends on nothing but core, so the references stay away from core's own dependencies.
 
 #![forbid(unsafe_code)]
 
+pub mod oppoint;
 pub mod spice;
