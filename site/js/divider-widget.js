@@ -148,8 +148,8 @@ export const GROUPS = [
     id: 'detail',
     title: 'Detail and Monte Carlo',
     fields: [
-      { key: 'pick', prop: 'pick', kind: 'count', unit: 'rank', label: 'Candidate shown in detail', def: '', optional: true, modes: FR,
-        note: 'Its rank in the table (empty: the first). Choosing a row sets it.' },
+      { key: 'pick', prop: 'pick', kind: 'count', unit: 'rank', label: 'Candidate shown in detail', def: '', optional: true,
+        note: 'Its rank in the table (empty: the first). Choosing a row sets it; the checks and the verdict are that candidate’s.' },
       { key: 'mc-samples', prop: 'mcSamples', kind: 'count', unit: 'samples', label: 'Monte Carlo samples', def: '20000', modes: FR,
         note: '0 turns the Monte Carlo run off; at most 1 000 000.' },
       { key: 'mc-seed', prop: 'mcSeed', kind: 'count', unit: '', label: 'Seed', def: '1', modes: FR,
@@ -222,6 +222,16 @@ export class RailnoteDivider extends CalculatorElement {
     }
   }
 
+  /**
+   * A text field fires `change` when it loses focus, after its `input` events have already
+   * computed. Computing again then would rebuild the table under the pointer of a click that
+   * caused the blur (choosing a row right after typing), and the click would be lost.
+   */
+  onEdit(e) {
+    if (e.type === 'change' && e.target instanceof HTMLInputElement && e.target.type === 'text') return;
+    super.onEdit(e);
+  }
+
   run(api, values) {
     const input = { ...values };
     // The page counts ranks from 1, as the table shows them; the API indexes from 0.
@@ -281,7 +291,7 @@ export class RailnoteDivider extends CalculatorElement {
   pickedCandidate(r) {
     if (r.mode === 'threshold') {
       const t = r.threshold;
-      return t && t.candidates && t.candidates.length ? t.candidates[0] : null;
+      return t && t.candidates && t.candidates.length ? t.candidates[r.pick] || t.candidates[0] : null;
     }
     return r.candidates && r.candidates.length ? r.candidates[r.pick] || r.candidates[0] : null;
   }
@@ -355,7 +365,7 @@ export class RailnoteDivider extends CalculatorElement {
       adjust: 'R_top (R1) runs from the output to the adjust pin and R_bot (R2) from that pin to ground; the regulator holds V_ref between its output and the adjust pin, so R_top carries V_ref.',
       threshold: 'R_top runs from the input to the enable pin and R_bot from that pin to ground; the part starts when the pin rises past its rising threshold and stops when it falls below its falling one.',
     }[topo];
-    const caption = [words, c ? ` Values shown: ${r.mode === 'threshold' ? 'the first candidate' : 'the candidate in detail'}.` : ''];
+    const caption = [words, c ? ' Values shown: the chosen candidate.' : ''];
     return h('section', { class: 'rn-block rn-sketch-block', 'data-block': 'sketch' },
       h('h3', {}, 'Which resistor is which'),
       h('figure', {}, svg, h('figcaption', {}, caption)));
@@ -385,9 +395,10 @@ export class RailnoteDivider extends CalculatorElement {
       columns.forEach((col, k) => {
         const content = col.cell(row, i);
         if (k === 0 && choose) {
-          const radio = h('input', { type: 'radio', name: `${prefix}-pick`, 'data-index': i, 'aria-label': `Show candidate ${i + 1} in detail`,
+          const radio = h('input', { type: 'radio', name: `${prefix}-pick`, 'data-index': i, 'aria-label': `Choose candidate ${i + 1}`,
             on: { change: () => choose(i) } });
           radio.checked = i === chosen;
+          if (i === chosen) radio.setAttribute('data-chosen', 'true');
           tr.append(h('th', { scope: 'row' }, h('label', { class: 'rn-pick' }, radio, content)));
         } else if (k === 0) {
           tr.append(h('th', { scope: 'row' }, content));
@@ -450,14 +461,14 @@ export class RailnoteDivider extends CalculatorElement {
   }
 
   /** Choosing a row: its rank goes into the pick field, and the check runs again. */
-  choose(index) {
+  choose(index, table = 'feedback') {
     const f = this.fieldByKey('pick');
     if (!f || !this.api) return;
     setFieldText(f, String(index + 1));
     this.reflecting = true;
     this.setAttribute('pick', f.input.value);
     this.reflecting = false;
-    this.refocus = { table: 'feedback', index };
+    this.refocus = { table, index };
     this.compute();
     if (this.urlState) this.urlState.write(this.texts());
   }
@@ -611,12 +622,13 @@ export class RailnoteDivider extends CalculatorElement {
   thresholdBlock(r) {
     const t = r.threshold;
     const head = h('h3', {}, 'Threshold candidates, best first');
+    const chooseWords = 'Choose a row to make it the candidate the checks judge; the column headings sort the table.';
     if (!t) return h('section', { class: 'rn-block', 'data-block': 'threshold' }, head, h('p', {}, 'No threshold result.'));
     const fmt = (v, k, dg = 4) => this.fmt(v, k, dg);
     const intro = h('p', { class: 'rn-note-text' },
       `Exact solution (not standard values): R_top ${fmt(t.idealTop, 'resistance', 4)}, R_bot ${fmt(t.idealBottom, 'resistance', 4)}. `,
       `Start window ${fmt(t.startMin, 'voltage')} to ${fmt(t.startMax, 'voltage')}, stop window ${fmt(t.stopMin, 'voltage')} to ${fmt(t.stopMax, 'voltage')}. `,
-      `${fmt(r.searched, 'count')} pairs evaluated.`);
+      `${fmt(r.searched, 'count')} pairs evaluated. `, chooseWords);
     const cands = t.candidates || [];
     if (!cands.length) {
       return h('section', { class: 'rn-block', 'data-block': 'threshold' }, head, intro,
@@ -638,7 +650,7 @@ export class RailnoteDivider extends CalculatorElement {
     const table = this.sortableTable({
       id: 'threshold',
       caption: `${cands.length} candidates for a start at ${fmt(this.values.vStart, 'voltage')} and a stop at ${fmt(this.values.vStop, 'voltage')}`,
-      rows: cands, columns, chosen: -1, choose: null,
+      rows: cands, columns, chosen: r.pick, choose: (i) => this.choose(i, 'threshold'),
     });
     return h('section', { class: 'rn-block', 'data-block': 'threshold' }, head, intro, h('div', { class: 'rn-table-scroll' }, table));
   }
