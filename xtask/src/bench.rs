@@ -8,6 +8,9 @@
 //! 4. A 10 000-step T_j(t) series of an eight-stage Foster network (one thermal check each),
 //!    natively (core/examples/bench_thermal.rs) and through the page's own WASM in headless
 //!    Chromium (tests/bench/wasm_thermal.mjs), side by side with their ratio.
+//! 5. The divider picker: an exhaustive E192 search over 1 kΩ–1 MΩ and a 100 000-sample Monte
+//!    Carlo run, natively (core/examples/bench_divider.rs) and in headless Chromium
+//!    (tests/bench/wasm_divider.mjs), with their ratios.
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
@@ -20,6 +23,8 @@ use std::process::Command;
 const LINEAR_CHECKS: &str = "20000";
 /// Thermal checks (10 000-step series each) per run: about half a second natively.
 const THERMAL_CHECKS: &str = "200";
+/// Runs of each divider job: about a quarter of a second natively for both.
+const DIVIDER_RUNS: &str = "20";
 
 pub fn bench() -> Result {
     tools::ensure_bench_tools()?;
@@ -28,13 +33,14 @@ pub fn bench() -> Result {
     browser()?;
     native_vs_wasm()?;
     thermal_series()?;
+    divider()?;
     println!();
     println!("xtask bench: done (figures only; nothing here fails on time)");
     Ok(())
 }
 
 fn sizes() -> Result {
-    header("bench 1/4: WASM size");
+    header("bench 1/5: WASM size");
     let record = bindgen_size_record();
     let raw: u64 = fs::read_to_string(&record)
         .ok()
@@ -56,7 +62,7 @@ fn sizes() -> Result {
 }
 
 fn browser() -> Result {
-    header("bench 2/4: linear page in headless Chromium");
+    header("bench 2/5: linear page in headless Chromium");
     let page = linear_page(&site_dir()).ok_or("site/ has no linear page to measure")?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -68,7 +74,7 @@ fn browser() -> Result {
 }
 
 fn native_vs_wasm() -> Result {
-    header("bench 3/4: the same batch of linear checks, native and WASM (Node)");
+    header("bench 3/5: the same batch of linear checks, native and WASM (Node)");
     let native = native_example("bench_linear", LINEAR_CHECKS)?;
     let wasm = output(
         Command::new("node")
@@ -94,7 +100,7 @@ fn native_vs_wasm() -> Result {
 }
 
 fn thermal_series() -> Result {
-    header("bench 4/4: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
+    header("bench 4/5: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
     let native = native_example("bench_thermal", THERMAL_CHECKS)?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -123,6 +129,45 @@ fn thermal_series() -> Result {
         wasm_ns / steps,
     );
     compare_checksums(native, wasm)
+}
+
+fn divider() -> Result {
+    header("bench 5/5: divider picker, E192 search and 100 000-sample Monte Carlo: native and WASM (Chromium)");
+    let native = native_example("bench_divider", DIVIDER_RUNS)?;
+    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
+    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
+    let wasm = output(
+        Command::new("node")
+            .arg("tests/bench/wasm_divider.mjs")
+            .arg(format!("http://{addr}/"))
+            .arg(DIVIDER_RUNS)
+            .current_dir(repo_root()),
+    )?;
+    for job in ["search", "montecarlo"] {
+        let pick = |text: &str| -> Result<String> {
+            text.lines()
+                .find(|l| l.contains(&format!("\"job\":\"{job}\"")))
+                .map(|l| l.trim().to_string())
+                .ok_or_else(|| format!("no {job} line in {text:?}"))
+        };
+        let (native, wasm) = (pick(&native)?, pick(&wasm)?);
+        println!("native:        {native}");
+        println!("wasm-chromium: {wasm}");
+        let (native_ns, wasm_ns) = (field_of(&native, "nsPerRun")?, field_of(&wasm, "nsPerRun")?);
+        let what = if job == "search" {
+            format!("{:.0}-pair E192 search", field_of(&native, "searched")?)
+        } else {
+            "100 000-sample Monte Carlo run".to_string()
+        };
+        println!(
+            "per {what}: native {:.3} ms, WASM in Chromium {:.3} ms: WASM takes {:.2}× the native time",
+            native_ns / 1e6,
+            wasm_ns / 1e6,
+            wasm_ns / native_ns
+        );
+        compare_checksums(&native, &wasm)?;
+    }
+    Ok(())
 }
 
 /// Run one of core's benchmark examples in release mode and return what it printed.
