@@ -21,9 +21,9 @@ import {
 import { renderHistogram, renderRangeBars } from './chart.js';
 
 const MODES = [
-  { value: 'feedback', label: 'Feedback divider: find the pair for an output voltage' },
-  { value: 'reverse', label: 'Two given resistors: their output and its spread' },
-  { value: 'threshold', label: 'Enable or undervoltage divider: find the pair for start and stop' },
+  { value: 'feedback', label: 'Feedback divider for an output voltage' },
+  { value: 'reverse', label: 'Two given resistors: output and spread' },
+  { value: 'threshold', label: 'Enable / undervoltage threshold divider' },
 ];
 
 const TOPOLOGIES = [
@@ -639,10 +639,13 @@ export class RailnoteDivider extends CalculatorElement {
       { id: 'rank', words: 'rank', head: 'Rank', cell: (c, i) => String(i + 1), key: (c, i) => i },
       { id: 'rTop', words: 'R_top', head: 'R_top', cell: (c) => withSeries(c.rTop, c.seriesTop), key: (c) => c.rTop },
       { id: 'rBottom', words: 'R_bot', head: 'R_bot', cell: (c) => withSeries(c.rBottom, c.seriesBottom), key: (c) => c.rBottom },
-      { id: 'start', words: 'start voltage', head: 'Start', cell: (c) => [fmt(c.start, 'voltage'), ' ', h('span', { class: 'rn-fit' }, this.fmtError(c.startErrorPct))], key: (c) => c.start },
-      { id: 'stop', words: 'stop voltage', head: 'Stop', cell: (c) => [fmt(c.stop, 'voltage'), ' ', h('span', { class: 'rn-fit' }, this.fmtError(c.stopErrorPct))], key: (c) => c.stop },
-      { id: 'startWorst', words: 'lowest worst-case start', head: 'Start, worst case', cell: (c) => [fmt(c.startLow, 'voltage'), h('br'), fmt(c.startHigh, 'voltage')], key: (c) => c.startLow },
-      { id: 'stopWorst', words: 'lowest worst-case stop', head: 'Stop, worst case', cell: (c) => [fmt(c.stopLow, 'voltage'), h('br'), fmt(c.stopHigh, 'voltage')], key: (c) => c.stopLow },
+      // Nominal voltage and its error on the first line, the worst case below it.
+      { id: 'start', words: 'start voltage', head: ['Start', h('br'), h('span', { class: 'rn-fit' }, 'worst case')],
+        cell: (c) => [fmt(c.start, 'voltage'), ' ', h('span', { class: 'rn-fit' }, this.fmtError(c.startErrorPct)), h('br'),
+          h('span', { class: 'rn-fit', 'data-q': 'startWorst' }, `${fmt(c.startLow, 'voltage')} to ${fmt(c.startHigh, 'voltage')}`)], key: (c) => c.start },
+      { id: 'stop', words: 'stop voltage', head: ['Stop', h('br'), h('span', { class: 'rn-fit' }, 'worst case')],
+        cell: (c) => [fmt(c.stop, 'voltage'), ' ', h('span', { class: 'rn-fit' }, this.fmtError(c.stopErrorPct)), h('br'),
+          h('span', { class: 'rn-fit', 'data-q': 'stopWorst' }, `${fmt(c.stopLow, 'voltage')} to ${fmt(c.stopHigh, 'voltage')}`)], key: (c) => c.stop },
       { id: 'currentAtStart', words: 'divider current at start', head: 'Current', cell: (c) => fmt(c.currentAtStart, 'current', 3), key: (c) => c.currentAtStart },
       { id: 'powerW', words: 'dissipation', head: 'Power', cell: (c) => fmt(c.powerW, 'power', 3), key: (c) => c.powerW },
       { id: 'fits', words: 'window fit', head: 'Fits?', cell: (c) => h('span', { class: c.fits ? 'rn-yes' : 'rn-no' }, c.fits ? 'yes' : 'no'), key: (c) => (c.fits ? 0 : 1) },

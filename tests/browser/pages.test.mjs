@@ -1,15 +1,16 @@
 // Every page: loads cleanly from its own origin only, shows the cautions, has no inline script or
 // handler, and the reference's link-key tables match the widgets. Also screenshots linear.html in
 // light, dark and print (tests/out/, git-ignored) for a person to look at (thermal.html's are
-// taken in thermal.test.mjs).
+// taken in thermal.test.mjs, divider.html's in divider.test.mjs).
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import { launch, open, url, assertSameOrigin, settled, field, OUT_DIR } from './browser.mjs';
 
-const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'thermal.html', 'embed.html?calc=thermal', 'reference.html'];
+const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'thermal.html', 'embed.html?calc=thermal',
+  'divider.html', 'embed.html?calc=divider', 'reference.html'];
 /** The calculator element a page shows, if any. */
-const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear' : null);
+const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear' : /divider/.test(p) ? 'railnote-divider' : null);
 // The brief's cautions, in the words every page that can lead to hardware must carry.
 const CAUTION_PHRASES = [/first-order/i, /datasheet/i, /measurement/i, /burn/i, /60 V DC/, /mains/i, /local codes/i, /licensed practice/i];
 
@@ -88,6 +89,23 @@ test('the reference lists exactly the thermal widget\'s link keys, with their AP
   await context.close();
 });
 
+test('the reference lists exactly the divider widget\'s link keys, with their API names', async () => {
+  const { context, page } = await open(browser);
+  await page.goto(url('reference.html'));
+  const table = await page.evaluate(() => [...document.querySelectorAll('#divider-url-key-table tbody tr')].map((tr) => [
+    tr.cells[0].textContent.trim(), tr.cells[1].textContent.trim(),
+  ]));
+  const widget = await page.evaluate(async () => {
+    const m = await import('./js/divider-widget.js');
+    return m.FIELD_DEFS.map((d) => [d.key, d.prop]);
+  });
+  assert.deepEqual(table, widget);
+  // Every API input key the widget sends appears in the reference's checkDivider input table.
+  const inputs = await page.evaluate(() => document.querySelector('#check-divider-input + .rn-table-scroll').textContent);
+  for (const [, prop] of widget) assert.ok(inputs.includes(prop), `reference documents ${prop}`);
+  await context.close();
+});
+
 test('keyboard: Tab reaches the fields with a visible focus ring, and Enter does not reload', async () => {
   const { context, page } = await open(browser);
   await page.goto(url('linear.html'));
@@ -163,15 +181,16 @@ test('the pages work under a strict Content-Security-Policy with Trusted Types',
     const response = await route.fetch();
     await route.fulfill({ response, headers: { ...response.headers(), 'content-security-policy': policy } });
   });
-  for (const p of ['linear.html?vout=3V3', 'embed.html?calc=linear', 'thermal.html?power=0.4', 'embed.html?calc=thermal', 'index.html', 'reference.html']) {
+  for (const p of ['linear.html?vout=3V3', 'embed.html?calc=linear', 'thermal.html?power=0.4', 'embed.html?calc=thermal',
+    'divider.html?vout-target=1.8', 'embed.html?calc=divider', 'index.html', 'reference.html']) {
     await page.goto(url(p));
     const tag = TAG_OF(p);
     if (tag) {
-      const key = tag === 'railnote-linear' ? 'vin-min' : 'power';
+      const key = { 'railnote-linear': 'vin-min', 'railnote-thermal': 'power', 'railnote-divider': 'vref' }[tag];
       assert.equal(await settled(page, 'ready', tag), 'ready', `${p} computes under the policy`);
       await field(page, key, tag).fill('abc');
       assert.equal(await settled(page, 'error', tag), 'error');
-      await field(page, key, tag).fill(tag === 'railnote-linear' ? '4.85' : '0.49');
+      await field(page, key, tag).fill({ 'railnote-linear': '4.85', 'railnote-thermal': '0.49', 'railnote-divider': '0.8' }[tag]);
       assert.equal(await settled(page, 'ready', tag), 'ready');
     }
     assert.deepEqual(await page.evaluate(() => window.__violations), [], `${p}: no policy violations`);
