@@ -64,7 +64,7 @@ export const GROUPS = [
         choiceMessage: 'choose one of the listed modes.' },
       { key: 'topology', prop: 'topology', type: 'select', options: TOPOLOGIES, label: 'Where the reference sits', def: 'feedback',
         modes: FR, choiceMessage: 'choose one of the listed topologies.',
-        note: 'The sketch beside the results shows which resistor is which.' },
+        note: 'The sketch with the results shows which resistor is which.' },
     ],
   },
   {

@@ -543,3 +543,31 @@ test('screenshots of divider.html, light and dark, and of the other modes (for l
     await context.close();
   }
 });
+
+test('print keeps the table headings, the chosen row, the charts and the link, and hides the buttons', async () => {
+  const { context, page, problems } = await open(browser);
+  await page.goto(url('divider.html?pick=2'));
+  await settled(page, 'ready', TAG);
+  await page.emulateMedia({ media: 'print' });
+  const seen = await page.evaluate((tag) => {
+    const shown = (e) => e.getClientRects().length > 0 && getComputedStyle(e).visibility !== 'hidden';
+    const w = document.querySelector(tag);
+    return {
+      otherButtons: [...document.querySelectorAll('button:not(.rn-sort)')].filter(shown).length,
+      headings: [...w.querySelectorAll('table[data-table="feedback"] thead th')].filter(shown).map((th) => th.innerText.trim()),
+      chosenRank: w.querySelector('table[data-table="feedback"] tr.rn-chosen th').innerText.trim(),
+      charts: [...w.querySelectorAll('svg.rn-chart')].filter(shown).length,
+      sketch: shown(w.querySelector('svg.rn-sketch')),
+      link: w.querySelector('.rn-permalink').textContent,
+    };
+  }, TAG);
+  assert.equal(seen.otherButtons, 0, 'no copy, reset or error buttons in print');
+  assert.deepEqual(seen.headings, ['Rank', 'R_top', 'R_bot', 'Vout', 'Error', 'Current', 'Power', 'Worst case', 'RSS ±', 'Fits?'], 'the headings print as words');
+  assert.equal(seen.chosenRank, '2');
+  assert.equal(seen.charts, 2, 'the contribution bars and the histogram');
+  assert.ok(seen.sketch);
+  assert.match(seen.link, /divider\.html\?.*pick=2/);
+  await page.screenshot({ path: path.join(OUT_DIR, 'divider-print.png'), fullPage: true });
+  assert.deepEqual(problems, []);
+  await context.close();
+});
