@@ -2094,3 +2094,157 @@ fn verdict_words(checks: &[Check], verdict: Status) -> String {
         Status::Fail => format!("fails on {}", titles_with(checks, Status::Fail)),
     }
 }
+
+mod out {
+    use super::*;
+    use crate::output::{out_object, out_words, Out, ToOut};
+
+    out_words!(Mode { Feedback => "feedback", Reverse => "reverse", Threshold => "threshold" });
+    out_words!(Distribution { Normal => "normal", Uniform => "uniform" });
+    out_words!(CheckId {
+        Window => "window",
+        Current => "current",
+        Yield => "yield",
+        Hysteresis => "hysteresis",
+    });
+    out_words!(CurrentFit { Low => "low", In => "in", High => "high" });
+    out_words!(End { Low => "low", High => "high" });
+    out_words!(Term {
+        Vref => "vref",
+        RTopTol => "rTopTol",
+        RTopDrift => "rTopDrift",
+        RBottomTol => "rBottomTol",
+        RBottomDrift => "rBottomDrift",
+        PinCurrent => "pinCurrent",
+    });
+
+    impl ToOut for Candidate {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "rTop": self.r_top,
+                "rBottom": self.r_bottom,
+                "seriesTop": self.series_top,
+                "seriesBottom": self.series_bottom,
+                "vout": self.vout,
+                "errorPct": self.error_pct,
+                "senseCurrent": self.sense_current,
+                "setCurrent": self.set_current,
+                "powerW": self.power_w,
+                "worstMin": self.worst_min,
+                "worstMax": self.worst_max,
+                "rss": self.rss,
+                "fitsWindow": self.fits_window,
+                "currentFit": self.current_fit,
+            }
+        }
+    }
+
+    impl ToOut for Corner {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "vref": self.vref,
+                "rTop": self.r_top,
+                "rBottom": self.r_bottom,
+                "pinCurrent": self.pin_current,
+            }
+        }
+    }
+
+    impl ToOut for Contribution {
+        fn to_out(&self) -> Out {
+            out_object! { "id": self.id, "title": self.title, "low": self.low, "high": self.high }
+        }
+    }
+
+    impl ToOut for Detail {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "contributions": self.contributions,
+                "minCorner": self.min_corner,
+                "maxCorner": self.max_corner,
+                "deltaT": self.delta_t,
+                "driftTopPct": self.drift_top_pct,
+                "driftBottomPct": self.drift_bottom_pct,
+            }
+        }
+    }
+
+    impl ToOut for Histogram {
+        fn to_out(&self) -> Out {
+            out_object! { "lo": self.lo, "hi": self.hi, "counts": self.counts }
+        }
+    }
+
+    impl ToOut for MonteCarlo {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "samples": self.samples,
+                "seed": self.seed,
+                "distribution": self.distribution,
+                "mean": self.mean,
+                "sigma": self.sigma,
+                "min": self.min,
+                "max": self.max,
+                "inside": self.inside,
+                "yieldPct": self.yield_pct,
+                "histogram": self.histogram,
+            }
+        }
+    }
+
+    impl ToOut for ThresholdCandidate {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "rTop": self.r_top,
+                "rBottom": self.r_bottom,
+                "seriesTop": self.series_top,
+                "seriesBottom": self.series_bottom,
+                "start": self.start,
+                "stop": self.stop,
+                "startErrorPct": self.start_error_pct,
+                "stopErrorPct": self.stop_error_pct,
+                "startLow": self.start_low,
+                "startHigh": self.start_high,
+                "stopLow": self.stop_low,
+                "stopHigh": self.stop_high,
+                "currentAtStart": self.current_at_start,
+                "powerW": self.power_w,
+                "fits": self.fits,
+            }
+        }
+    }
+
+    impl ToOut for ThresholdResult {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "idealTop": self.ideal_top,
+                "idealBottom": self.ideal_bottom,
+                "startMin": self.start_min,
+                "startMax": self.start_max,
+                "stopMin": self.stop_min,
+                "stopMax": self.stop_max,
+                "candidates": self.candidates,
+            }
+        }
+    }
+
+    impl ToOut for DividerReport {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "mode": self.mode,
+                "verdict": self.verdict,
+                "summary": self.summary,
+                "checks": self.checks,
+                "warnings": self.warnings,
+                "searched": self.searched,
+                "windowMin": self.window_min,
+                "windowMax": self.window_max,
+                "candidates": self.candidates,
+                "pick": self.pick,
+                "detail": self.detail,
+                "monteCarlo": self.monte_carlo,
+                "threshold": self.threshold,
+            }
+        }
+    }
+}

@@ -7,6 +7,7 @@
 //! - [`error`]: the one input error type, naming the field and the reason.
 //! - [`fields`]: reading an input from named fields (a JS object, a JSON document).
 //! - [`verdict`]: pass / marginal / fail, shared by every calculator.
+//! - [`output`]: a report as plain data (numbers, words, lists, objects) for the wasm crate.
 //! - [`series`]: the IEC 60063 preferred-number series E3 to E192.
 //! - [`linear`]: the linear rail check.
 //! - [`divider`]: the divider picker: feedback and threshold dividers from standard values,
@@ -30,6 +31,7 @@ pub mod divider;
 pub mod error;
 pub mod fields;
 pub mod linear;
+pub mod output;
 pub mod series;
 pub mod thermal;
 pub mod units;

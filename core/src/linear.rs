@@ -821,3 +821,111 @@ impl ValidLinear {
         }
     }
 }
+
+mod out {
+    use super::*;
+    use crate::output::{out_object, out_words, Out, ToOut};
+
+    out_words!(CheckId {
+        Headroom => "headroom",
+        Thermal => "thermal",
+        Rating => "rating",
+        Efficiency => "efficiency",
+        Budget => "budget",
+    });
+    out_words!(CornerLabel { Min => "min", Nom => "nom", Max => "max" });
+    out_words!(LoadBound { Thermal => "thermal", Headroom => "headroom", Rating => "rating" });
+
+    impl ToOut for OperatingPoint {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "ioutA": self.iout_a,
+                "groundA": self.ground_a,
+                "inputA": self.input_a,
+                "passW": self.pass_w,
+                "groundW": self.ground_w,
+                "totalW": self.total_w,
+                "inputW": self.input_w,
+                "outputW": self.output_w,
+                "efficiencyPct": self.efficiency_pct,
+                "tjC": self.tj_c,
+                "thermalMarginC": self.thermal_margin_c,
+            }
+        }
+    }
+
+    impl ToOut for Corner {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "label": self.label,
+                "vin": self.vin,
+                "headroomV": self.headroom_v,
+                "full": self.full,
+                "typ": self.typ,
+            }
+        }
+    }
+
+    impl ToOut for WorstCase {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "voutMin": self.vout_min,
+                "voutMax": self.vout_max,
+                "dropoutV": self.dropout_v,
+                "headroomV": self.headroom_v,
+                "powerW": self.power_w,
+                "tjC": self.tj_c,
+                "thermalMarginC": self.thermal_margin_c,
+                "inputCurrentA": self.input_current_a,
+            }
+        }
+    }
+
+    impl ToOut for Limits {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "maxLoadA": self.max_load_a,
+                "maxLoadBy": self.max_load_by,
+                "maxLoadThermalA": self.max_load_thermal_a,
+                "maxLoadHeadroomA": self.max_load_headroom_a,
+                "hottestAmbientC": self.hottest_ambient_c,
+                "vinMinRegulating": self.vin_min_regulating,
+                "vinMinWithMargin": self.vin_min_with_margin,
+                "vinMaxThermal": self.vin_max_thermal,
+            }
+        }
+    }
+
+    impl ToOut for Window {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "vinFrom": self.vin_from,
+                "vinTo": self.vin_to,
+                "ioutTo": self.iout_to,
+                "dropout": self.dropout,
+                "thermal": self.thermal,
+                "ratedA": self.rated_a,
+                "vinMin": self.vin_min,
+                "vinMax": self.vin_max,
+                "ioutTyp": self.iout_typ,
+                "ioutMax": self.iout_max,
+            }
+        }
+    }
+
+    impl ToOut for LinearReport {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "verdict": self.verdict,
+                "summary": self.summary,
+                "checks": self.checks,
+                "warnings": self.warnings,
+                "suggestSwitching": self.suggest_switching,
+                "corners": self.corners,
+                "worst": self.worst,
+                "limits": self.limits,
+                "window": self.window,
+            }
+        }
+    }
+}

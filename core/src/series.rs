@@ -232,3 +232,13 @@ fn split(value: f64) -> Option<(u16, i32)> {
     }
     Some((m as u16, power))
 }
+
+crate::output::out_words!(Series {
+    E3 => "E3",
+    E6 => "E6",
+    E12 => "E12",
+    E24 => "E24",
+    E48 => "E48",
+    E96 => "E96",
+    E192 => "E192",
+});

@@ -954,3 +954,90 @@ fn ending(status: Status) -> &'static str {
         Status::Fail => ": the junction runs above its limit.",
     }
 }
+
+mod out {
+    use super::*;
+    use crate::output::{out_object, out_words, Out, ToOut};
+
+    out_words!(ThermalCheckId {
+        Steady => "steady",
+        HeatSink => "heatSink",
+        Pulse => "pulse",
+        CaseTop => "caseTop",
+        Board => "board",
+    });
+
+    impl ToOut for Steady {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "thetaTotal": self.theta_total,
+                "tjC": self.tj_c,
+                "marginC": self.margin_c,
+                "maxPowerW": self.max_power_w,
+                "hottestAmbientC": self.hottest_ambient_c,
+                "thetaSaNeededKPerW": self.theta_sa_needed_k_per_w,
+                "limitWithMarginC": self.limit_with_margin_c,
+            }
+        }
+    }
+
+    impl ToOut for Measured {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "fromCaseTopC": self.from_case_top_c,
+                "fromBoardC": self.from_board_c,
+            }
+        }
+    }
+
+    impl ToOut for Derating {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "limit": self.limit,
+                "withMargin": self.with_margin,
+                "ratingW": self.rating_w,
+                "powerW": self.power_w,
+                "taMax": self.ta_max,
+            }
+        }
+    }
+
+    impl ToOut for PulseResult {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "dutyPct": self.duty_pct,
+                "singlePeakC": self.single_peak_c,
+                "trainPeakC": self.train_peak_c,
+                "trainValleyC": self.train_valley_c,
+                "averageC": self.average_c,
+            }
+        }
+    }
+
+    impl ToOut for Transient {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "rTotal": self.r_total,
+                "zth": self.zth,
+                "pulse": self.pulse,
+                "series": self.series,
+                "seriesPeakC": self.series_peak_c,
+            }
+        }
+    }
+
+    impl ToOut for ThermalReport {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "verdict": self.verdict,
+                "summary": self.summary,
+                "checks": self.checks,
+                "warnings": self.warnings,
+                "steady": self.steady,
+                "measured": self.measured,
+                "derating": self.derating,
+                "transient": self.transient,
+            }
+        }
+    }
+}

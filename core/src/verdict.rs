@@ -66,3 +66,13 @@ pub fn titles_with<Id>(checks: &[Check<Id>], status: Status) -> String {
     // The titles are ASCII; ASCII lowering keeps Unicode case tables out of the module.
     names.join(", ").to_ascii_lowercase()
 }
+
+use crate::output::{out_object, out_words, Out, ToOut};
+
+out_words!(Status { Pass => "pass", Marginal => "marginal", Fail => "fail" });
+
+impl<Id: ToOut> ToOut for Check<Id> {
+    fn to_out(&self) -> Out {
+        out_object! { "id": self.id, "title": self.title, "status": self.status, "text": self.text }
+    }
+}

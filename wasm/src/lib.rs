@@ -2,8 +2,8 @@
 //!
 //! Each calculator crosses the boundary once: one exported function takes a plain object and
 //! returns a plain object (inputs read by [`input`] through core's field readers, outputs
-//! written by serde-wasm-bindgen's
-//! JSON-compatible serializer so that absent values arrive as `null` and maps as plain objects). Every failure is a thrown JS
+//! written from core's plain-data form, `railnote_core::output`, so that absent values arrive
+//! as `null` and objects as plain objects). Every failure is a thrown JS
 //! `Error` built by [`field_error`]: its `message` is a sentence for the user and its `field`
 //! property names the input key it concerns, so a page can show the message at that field.
 //!
@@ -25,10 +25,10 @@ static ALLOCATOR: talc::wasm::WasmDynamicTalc = talc::wasm::new_wasm_dynamic_all
 use railnote_core::divider::DividerInput;
 use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
+use railnote_core::output::{Out, ToOut};
 use railnote_core::thermal::ThermalInput;
 use railnote_core::units::{self, QuantityKind};
 use railnote_core::InputError;
-use serde::Serialize;
 use wasm_bindgen::prelude::*;
 
 /// The crate version, for bug reports and cache busting.
@@ -66,11 +66,36 @@ fn read_input<T>(
     })
 }
 
-fn write_output<T: Serialize>(value: &T) -> Result<JsValue, JsValue> {
-    let serializer = serde_wasm_bindgen::Serializer::json_compatible();
-    value
-        .serialize(&serializer)
-        .map_err(|e| field_error("output", &format!("The result could not be written: {e}")))
+/// A report as a plain JavaScript value: objects, arrays, numbers, strings, booleans and `null`
+/// for absent values (never a `Map`), written from core's plain-data form in one pass.
+fn write_output<T: ToOut>(value: &T) -> Result<JsValue, JsValue> {
+    Ok(to_js(&value.to_out()))
+}
+
+fn to_js(out: &Out) -> JsValue {
+    match out {
+        Out::Null => JsValue::NULL,
+        Out::Bool(b) => JsValue::from_bool(*b),
+        Out::Number(n) => JsValue::from_f64(*n),
+        Out::Word(w) => JsValue::from_str(w),
+        Out::Text(t) => JsValue::from_str(t),
+        Out::List(items) => {
+            let list = js_sys::Array::new();
+            for item in items {
+                list.push(&to_js(item));
+            }
+            list.into()
+        }
+        Out::Object(fields) => {
+            let object = js_sys::Object::new();
+            for (key, value) in fields {
+                // Setting a property on a fresh plain object cannot fail; ignore the Result
+                // rather than unwrap so that no panic path exists.
+                let _ = js_sys::Reflect::set(&object, &JsValue::from_str(key), &to_js(value));
+            }
+            object.into()
+        }
+    }
 }
 
 fn kind_named(kind: &str) -> Result<QuantityKind, JsValue> {

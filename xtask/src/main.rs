@@ -192,8 +192,8 @@ const TEST_STEPS: &[(&str, Step)] = &[
         Step::Cargo(&["fmt", "--all", "--check"]),
     ),
     (
-        "cargo test -p railnote-core",
-        Step::Cargo(&["test", "-p", "railnote-core"]),
+        "cargo test -p railnote-core --features serde",
+        Step::Cargo(&["test", "-p", "railnote-core", "--features", "serde"]),
     ),
     (
         "cargo test -p railnote-core --no-default-features",
