@@ -204,19 +204,24 @@ export class RailnoteDivider extends CalculatorElement {
     return this.fieldByKey('topology').input.value === 'adjust' ? 'adjust' : 'feedback';
   }
 
-  /** A field the chosen mode does not use is not read and not sent. */
-  skipField(f) {
+  /** Whether the chosen mode uses a field (an unknown mode shows everything, with its message). */
+  usedByMode(f) {
     const modes = f.def.modes;
     const mode = this.modeNow();
-    if (!modes || !MODES.some((m) => m.value === mode)) return false;
+    if (!modes || !MODES.some((m) => m.value === mode)) return true;
+    return modes.includes(mode);
+  }
+
+  /** A field the chosen mode does not use is not read and not sent. */
+  skipField(f) {
     // Two given resistors need no target: an empty one is left out (the window centres on their output).
-    if (f.def.key === 'vout-target' && mode === 'reverse' && f.input.value.trim() === '') return true;
-    return !modes.includes(mode);
+    if (f.def.key === 'vout-target' && this.modeNow() === 'reverse' && f.input.value.trim() === '') return true;
+    return !this.usedByMode(f);
   }
 
   /** Show only the fields (and groups) the chosen mode uses; hidden ones keep their text for links. */
   beforeCompute() {
-    for (const f of this.fields) f.root.hidden = this.skipField(f);
+    for (const f of this.fields) f.root.hidden = !this.usedByMode(f);
     for (const fs of this.querySelectorAll('.rn-inputs fieldset.rn-group')) {
       fs.hidden = ![...fs.querySelectorAll('.rn-field')].some((el) => !el.hidden);
     }
@@ -479,7 +484,7 @@ export class RailnoteDivider extends CalculatorElement {
     const fmt = (v, k, d) => this.fmt(v, k, d);
     const intro = h('p', { class: 'rn-note-text' },
       r.mode === 'reverse'
-        ? 'The two resistors as given; the series column names the lowest E series that holds each value.'
+        ? 'The two resistors as given; beside each value, the lowest E series that holds it.'
         : [`${fmt(r.searched, 'count')} pairs evaluated; ranked by nominal error, then by fit to the current range, then by the lower series. `,
           'Window: ', fmt(r.windowMin, 'voltage', 4), ' to ', fmt(r.windowMax, 'voltage', 4),
           '. Choose a row to see its worst case and Monte Carlo run; the column headings sort the table.']);
@@ -501,6 +506,8 @@ export class RailnoteDivider extends CalculatorElement {
       { id: 'rss', words: 'root-sum-square spread', head: 'RSS ±', cell: (c) => fmt(c.rss, 'voltage', 3), key: (c) => c.rss },
       { id: 'fitsWindow', words: 'window fit', head: 'Fits?', cell: (c) => h('span', { class: c.fitsWindow ? 'rn-yes' : 'rn-no' }, c.fitsWindow ? 'yes' : 'no'), key: (c) => (c.fitsWindow ? 0 : 1) },
     ];
+    // One given pair has nothing to sort.
+    if (r.mode === 'reverse') for (const col of columns) delete col.key;
     const table = this.sortableTable({
       id: 'feedback',
       caption: r.mode === 'reverse' ? 'The given resistors' : `${cands.length} candidates for ${fmt(this.values.voutTarget, 'voltage', 4)}`,

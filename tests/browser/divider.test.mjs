@@ -322,6 +322,8 @@ test('reverse mode: two given resistors give their output and spread, both topol
   close(a.candidates[0].worstMin, wa.min, REL, 'adjust worst low');
   close(a.candidates[0].worstMax, wa.max, REL, 'adjust worst high');
   close(a.windowMin, a.candidates[0].vout * 0.97, REL, 'the window centres on the nominal output');
+  assert.equal(await page.locator(`${TAG} .rn-field[data-key="vout-target"]`).isVisible(), true, 'the emptied target stays there to be typed into');
+  assert.equal(await page.locator(`${TAG} table[data-table="feedback"] button.rn-sort`).count(), 0, 'one given pair: nothing to sort');
   // IEC 60063: 24 is an E24 value (not E12), 133 first appears in E48.
   assert.equal(a.candidates[0].seriesTop, 'E24');
   assert.equal(a.candidates[0].seriesBottom, 'E48');
