@@ -231,6 +231,30 @@ test('picking a row by keyboard updates pick, the detail and the histogram', asy
   await context.close();
 });
 
+test('after sorting, the arrow keys follow the rows as shown and the order survives the new pick', async () => {
+  const { context, page, requests, problems } = await open(browser);
+  await page.goto(url('divider.html'));
+  await settled(page, 'ready', TAG);
+  const r = await result(page, TAG);
+  await page.locator(`${TAG} table[data-table="feedback"] button[data-column="powerW"]`).click();
+  const shown = (await tableRows(page)).map((row) => row.index);
+  const powers = shown.map((i) => r.candidates[i].powerW);
+  assert.deepEqual(powers, powers.slice().sort((a, b) => a - b), 'sorted by dissipation');
+  // From the chosen row (rank 1, wherever it now sits) the next row down is the next one shown.
+  const at = shown.indexOf(0);
+  assert.ok(at < shown.length - 1, 'rank 1 is not the last row shown');
+  await page.locator(`${TAG} table[data-table="feedback"] input[data-index="0"]`).focus();
+  await page.keyboard.press('ArrowDown');
+  const next = shown[at + 1];
+  await page.waitForFunction(([tag, n]) => document.querySelector(tag).result.pick === n, [TAG, next]);
+  assert.equal(await field(page, 'pick', TAG).inputValue(), String(next + 1));
+  assert.deepEqual((await tableRows(page)).map((row) => row.index), shown, 'still sorted by dissipation after the re-render');
+  assert.equal(await page.locator(`${TAG} table[data-table="feedback"] th:has(button[data-column="powerW"])`).getAttribute('aria-sort'), 'ascending');
+  assert.deepEqual(problems, []);
+  assertSameOrigin(requests);
+  await context.close();
+});
+
 test('the Monte Carlo histogram is an SVG with its bars and the window edges where the window is', async () => {
   const { context, page, requests, problems } = await open(browser);
   await page.goto(url('divider.html'));
