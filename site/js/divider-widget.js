@@ -253,12 +253,11 @@ export class RailnoteDivider extends CalculatorElement {
 
   renderResult(r) {
     super.renderResult(r);
+    // A row chosen from the keyboard is rebuilt by the render: give its radio the focus back.
     if (this.refocus) {
-      const { table, index, column } = this.refocus;
+      const { table, index } = this.refocus;
       this.refocus = null;
-      let target = null;
-      if (index !== undefined) target = this.querySelector(`table[data-table="${table}"] input[data-index="${index}"]`);
-      if (column) target = this.querySelector(`table[data-table="${table}"] button[data-column="${column}"]`);
+      const target = this.querySelector(`table[data-table="${table}"] input[data-index="${index}"]`);
       if (target) target.focus();
     }
   }
@@ -273,15 +272,13 @@ export class RailnoteDivider extends CalculatorElement {
     return parts;
   }
 
-  /** Names of the two resistors in the chosen topology, as the sketch labels them. */
+  /**
+   * Names of the two resistors in the words of the result: R_top and R_bot in every topology
+   * (with the adjust pin, R1 and R2 as well, as the sketch shows).
+   */
   names(r) {
-    if (r.mode !== 'threshold' && this.topologyNow() === 'adjust') {
-      return { top: 'R_top (R1, OUT to ADJ)', bottom: 'R_bot (R2, ADJ to GND)', topShort: 'R_top', bottomShort: 'R_bot' };
-    }
-    if (r.mode === 'threshold') {
-      return { top: 'R_top (input to EN)', bottom: 'R_bot (EN to GND)', topShort: 'R_top', bottomShort: 'R_bot' };
-    }
-    return { top: 'R_top (OUT to FB)', bottom: 'R_bot (FB to GND)', topShort: 'R_top', bottomShort: 'R_bot' };
+    if (r.mode !== 'threshold' && this.topologyNow() === 'adjust') return { topShort: 'R_top (R1)', bottomShort: 'R_bot (R2)' };
+    return { topShort: 'R_top', bottomShort: 'R_bot' };
   }
 
   /**
