@@ -1,6 +1,8 @@
 //! `cargo xtask bench`: figures, never pass/fail on time.
 //!
-//! 1. WASM size: after wasm-bindgen (before wasm-opt), after wasm-opt, and gzip -9.
+//! 1. WASM size: after wasm-bindgen (before wasm-opt), after wasm-opt, and gzip -9; and where
+//!    the bytes go: function bodies summed by part (core module, crate), from the names that
+//!    wasm-bindgen's output still has.
 //! 2. In headless Chromium (tests/bench/browser.mjs): first-load weight of the linear page
 //!    (every response gzipped), navigation to the first result, and edit to painted result.
 //! 3. The same batch of linear checks natively (core/examples/bench_linear.rs) and in WASM under
@@ -14,7 +16,8 @@
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
-    bindgen_size_record, build_site, cargo, linear_page, pkg_dir, server, site_dir, tools,
+    bindgen_size_record, build_site, cargo, linear_page, pkg_dir, server, site_dir, target_dir,
+    tools, wasm_names,
 };
 use std::fs;
 use std::process::Command;
@@ -58,6 +61,29 @@ fn sizes() -> Result {
         "after wasm-opt, gzip -9:              {}",
         util::bytes(gzip)
     );
+    breakdown()
+}
+
+/// Function bodies by part, from a fresh wasm-bindgen run (site/pkg's module has been through
+/// wasm-opt, which drops the names and merges functions, so these are pre-wasm-opt bytes).
+fn breakdown() -> Result {
+    let dir = target_dir().join("railnote-names");
+    let wasm = target_dir().join("wasm32-unknown-unknown/wasm-release/railnote_wasm.wasm");
+    run(Command::new("wasm-bindgen")
+        .args(["--target", "web", "--out-name", "railnote", "--out-dir"])
+        .arg(&dir)
+        .arg(&wasm))?;
+    let module = dir.join("railnote_bg.wasm");
+    let bytes = fs::read(&module).map_err(|e| format!("cannot read {}: {e}", module.display()))?;
+    let sizes = wasm_names::function_sizes(&bytes)?;
+    let total: usize = sizes.iter().map(|s| s.0).sum();
+    println!("function bodies after wasm-bindgen, by part ({total} B in all):");
+    for (part, size) in wasm_names::by_part(&sizes).into_iter().take(16) {
+        println!(
+            "  {part:<20} {size:>7} B  {:>5.1} %",
+            100.0 * size as f64 / total as f64
+        );
+    }
     Ok(())
 }
 

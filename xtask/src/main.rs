@@ -7,6 +7,7 @@ mod bench;
 mod server;
 mod tools;
 mod util;
+mod wasm_names;
 
 use std::env;
 use std::fs;
