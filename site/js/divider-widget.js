@@ -482,7 +482,7 @@ export class RailnoteDivider extends CalculatorElement {
     const intro = h('p', { class: 'rn-note-text' },
       r.mode === 'reverse'
         ? 'The two resistors as given; beside each value, the lowest E series that holds it.'
-        : [`${fmt(r.searched, 'count')} pairs evaluated; ranked by nominal error, then by fit to the current range, then by the lower series. `,
+        : [`${fmt(r.searched, 'count')} pairs evaluated; ranked by the size of the nominal error, then by how near the divider current is to the middle of the wanted range, then by the coarser series. `,
           'Window: ', fmt(r.windowMin, 'voltage', 4), ' to ', fmt(r.windowMax, 'voltage', 4),
           '. Choose a row to see its worst case and Monte Carlo run; the column headings sort the table.']);
     if (!cands.length) {
