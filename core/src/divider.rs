@@ -1954,6 +1954,26 @@ impl ValidDivider {
             })
             .collect();
         let mut found = in_rank_order(found, &keys);
+        // As in the feedback search, a candidate's nominal start and stop must lie inside their
+        // windows; when none does, say how close the best one comes.
+        let w = spec.window;
+        let inside = |c: &ThresholdCandidate| {
+            libm::fabs(c.start_error_pct) <= 100.0 * w && libm::fabs(c.stop_error_pct) <= 100.0 * w
+        };
+        if !found.iter().any(inside) {
+            let (start, stop) = found.first().map_or((0.0, 0.0), |c| (c.start, c.stop));
+            return Err(InputError::new(
+                "windowPct",
+                format!(
+                    "No pair of series values puts both the start and the stop inside their \
+                     windows; the closest starts at {} and stops at {}: try finer series or a \
+                     wider window",
+                    show4(start),
+                    show4(stop)
+                ),
+            ));
+        }
+        found.retain(inside);
         found.truncate(self.limit);
         Ok(Found {
             candidates: Vec::new(),

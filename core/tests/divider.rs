@@ -535,6 +535,24 @@ fn bad_inputs_name_their_field() {
             "vStop",
             "below the start",
         ),
+        (
+            // Both resistors are pinned by the two voltages; E3 values land far from them.
+            DividerInput {
+                mode: Mode::Threshold,
+                series_top: Some(Series::E3),
+                series_bottom: Some(Series::E3),
+                pin_rise: Some(1.2),
+                pin_fall: Some(1.2),
+                current_off: Some(3e-6),
+                current_on: Some(0.0),
+                v_start: Some(11.5),
+                v_stop: Some(10.5),
+                window_pct: Some(1.0),
+                ..demo()
+            },
+            "windowPct",
+            "both the start and the stop",
+        ),
     ];
     for (input, field, words) in cases {
         let e = check(&input).expect_err(field);
