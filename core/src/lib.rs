@@ -8,6 +8,8 @@
 //! - [`fields`]: reading an input from named fields (a JS object, a JSON document).
 //! - [`verdict`]: pass / marginal / fail, shared by every calculator.
 //! - [`linear`]: the linear rail check.
+//! - [`switching`]: the switching estimate: buck, boost and inverting buck-boost, CCM and DCM,
+//!   losses, efficiency against load.
 //! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
 //!   derating, Foster-network transients and pulse trains.
 //!
@@ -26,6 +28,7 @@ extern crate std;
 pub mod error;
 pub mod fields;
 pub mod linear;
+pub mod switching;
 pub mod thermal;
 pub mod units;
 pub mod verdict;
