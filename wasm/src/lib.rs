@@ -16,6 +16,7 @@ mod input;
 
 use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
+use railnote_core::switching::SwitchingInput;
 use railnote_core::thermal::ThermalInput;
 use railnote_core::units::{self, QuantityKind};
 use railnote_core::InputError;
@@ -115,6 +116,15 @@ pub fn check_linear(input: JsValue) -> Result<JsValue, JsValue> {
 pub fn check_thermal(input: JsValue) -> Result<JsValue, JsValue> {
     let input = read_input(input, ThermalInput::read)?;
     let report = railnote_core::thermal::check_thermal(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// The switching estimate: buck, boost or inverting buck-boost at each input corner, loss
+/// breakdown and efficiency against load (fields in the site's reference page).
+#[wasm_bindgen(js_name = checkSwitching)]
+pub fn check_switching(input: JsValue) -> Result<JsValue, JsValue> {
+    let input = read_input(input, SwitchingInput::read)?;
+    let report = railnote_core::switching::check_switching(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
 
