@@ -10,6 +10,7 @@
 //! - [`linear`]: the linear rail check.
 //! - [`switching`]: the switching estimate: buck, boost and inverting buck-boost, CCM and DCM,
 //!   losses, efficiency against load.
+//! - [`compare`]: linear or switching: the same rail through both, side by side.
 //! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
 //!   derating, Foster-network transients and pulse trains.
 //!
@@ -25,6 +26,7 @@ extern crate alloc;
 #[cfg(feature = "std")]
 extern crate std;
 
+pub mod compare;
 pub mod error;
 pub mod fields;
 pub mod linear;

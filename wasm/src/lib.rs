@@ -14,6 +14,7 @@
 
 mod input;
 
+use railnote_core::compare::CompareInput;
 use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
 use railnote_core::switching::SwitchingInput;
@@ -125,6 +126,15 @@ pub fn check_thermal(input: JsValue) -> Result<JsValue, JsValue> {
 pub fn check_switching(input: JsValue) -> Result<JsValue, JsValue> {
     let input = read_input(input, SwitchingInput::read)?;
     let report = railnote_core::switching::check_switching(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// Linear or switching: the same rail through the linear check and the switching estimate,
+/// side by side (fields in the site's reference page).
+#[wasm_bindgen(js_name = compareRails)]
+pub fn compare_rails(input: JsValue) -> Result<JsValue, JsValue> {
+    let input = read_input(input, CompareInput::read)?;
+    let report = railnote_core::compare::compare_rails(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
 
