@@ -25,7 +25,10 @@
 //!   measured in its own ngspice run ([`diode_drop`]) and that measured value is what the test
 //!   gives the estimate as V_f. The near-ideal junction still blocks reverse current, so a diode
 //!   converter at light load goes discontinuous by itself.
-//! - **Load** is a resistor (R = V_out/I_out at the estimate's output) or a constant current.
+//! - **Load** is a resistor (R = V_out/I_out at the estimate's output). A resistor damps the
+//!   output filter, so the periodic steady state comes within a few hundred periods; a constant
+//!   current load would leave only the DCR and the on-resistances to damp it (thousands of
+//!   periods for a boost).
 //! - **Start and steady state**: the inductor current and the capacitor voltage start at given
 //!   values (`uic` with element initial conditions), best the estimate's own steady values, and
 //!   the deck runs `settle_periods + 2·measure_periods` periods. The last `measure_periods` give
@@ -89,15 +92,6 @@ pub enum Rectifier {
     Diode(FixedDropDiode),
 }
 
-/// The load on the output.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub enum Load {
-    /// A resistor, Ω.
-    Resistor(f64),
-    /// A constant current, A, drawn out of the output (magnitude; the sign follows the output).
-    Current(f64),
-}
-
 /// One power stage at one operating point.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Converter {
@@ -114,7 +108,8 @@ pub struct Converter {
     /// On-resistance of the main (controlled) switch, Ω.
     pub r_on_main_ohm: f64,
     pub rectifier: Rectifier,
-    pub load: Load,
+    /// The load resistor, Ω.
+    pub r_load_ohm: f64,
 }
 
 /// Where the simulation starts: the output capacitor's voltage (signed; negative for the
@@ -156,10 +151,15 @@ pub struct Measured {
     pub p_out_w: f64,
     /// p_out / p_in.
     pub efficiency: f64,
+    /// Power lost in the output capacitor's ESR, W (I_C,rms²·ESR; zero when the ESR is zero).
+    pub esr_loss_w: f64,
     /// The largest relative change of the average output voltage, the average inductor current
     /// and the input power between the window before and the last window: a measure of how far
     /// from the periodic steady state the run still was.
     pub drift: f64,
+    /// Fraction of the last window in which the inductor current is above 10⁻⁴ of its peak:
+    /// 1 in continuous conduction, D1 + D2 in discontinuous.
+    pub conducting_fraction: f64,
     /// Number of time points in the last window.
     pub points: usize,
 }
@@ -173,8 +173,9 @@ fn edge(conv: &Converter) -> f64 {
     period(conv) * 1e-4
 }
 
-/// The deck of `conv` started at `start`, run as `run` says, writing time, v(out), the inductor
-/// current, the input current and the load current to `out.txt`.
+/// The deck of `conv` started at `start`, run as `run` says, writing time, v(out), the
+/// capacitor's inner node v(nc) (behind the ESR), the inductor current, the input current and the
+/// load current to `out.txt`.
 pub fn deck(conv: &Converter, start: Start, run: Run) -> String {
     let t = period(conv);
     let tr = edge(conv);
@@ -237,17 +238,7 @@ pub fn deck(conv: &Converter, start: Start, run: Run) -> String {
     writeln!(d, "Cout nc 0 {:e} ic={:e}", conv.c_out_f, start.v_cap).unwrap();
     // The load behind an ammeter: current out → load positive (negative for inverting).
     d.push_str("Vloadm out nload DC 0\n");
-    match conv.load {
-        Load::Resistor(r) => writeln!(d, "Rload nload 0 {r:e}").unwrap(),
-        Load::Current(i) => {
-            let signed = if conv.topology == Topology::InvertingBuckBoost {
-                -i
-            } else {
-                i
-            };
-            writeln!(d, "Iload nload 0 DC {signed:e}").unwrap();
-        }
-    }
+    writeln!(d, "Rload nload 0 {:e}", conv.r_load_ohm).unwrap();
     write!(
         d,
         ".control\n\
@@ -255,7 +246,7 @@ pub fn deck(conv: &Converter, start: Start, run: Run) -> String {
          set wr_vecnames\n\
          option reltol=1e-5\n\
          tran {step:e} {stop:e} {keep_from:e} {step:e} uic\n\
-         wrdata out.txt v(out) l1#branch vinm#branch vloadm#branch\n\
+         wrdata out.txt v(out) v(nc) l1#branch vinm#branch vloadm#branch\n\
          quit\n\
          .endc\n\
          .end\n"
@@ -291,12 +282,41 @@ fn mean(t: &[f64], y: &[f64], from: f64, to: f64) -> f64 {
     area / (to - from)
 }
 
+/// The time within [from, to] in which `y` is above `threshold`, crossings placed by linear
+/// interpolation between samples.
+fn time_above(t: &[f64], y: &[f64], from: f64, to: f64, threshold: f64) -> f64 {
+    let mut total = 0.0;
+    for i in 1..t.len() {
+        let (t0, t1) = (t[i - 1].max(from), t[i].min(to));
+        if t1 <= t0 {
+            continue;
+        }
+        let (y0, y1) = (y[i - 1] - threshold, y[i] - threshold);
+        let dt = t[i] - t[i - 1];
+        total += match (y0 > 0.0, y1 > 0.0) {
+            (true, true) => t1 - t0,
+            (false, false) => 0.0,
+            // The crossing time, then the part of [t0, t1] on the high side.
+            (up_first, _) => {
+                let cross = t[i - 1] + dt * y0 / (y0 - y1);
+                if up_first {
+                    (cross.min(t1) - t0).max(0.0)
+                } else {
+                    (t1 - cross.max(t0)).max(0.0)
+                }
+            }
+        };
+    }
+    total
+}
+
 /// Simulates `conv` from `start` for `run` and measures the last window.
 pub fn simulate(name: &str, conv: &Converter, start: Start, run: Run) -> Result<Measured, String> {
     let (data, log, deck_path) = run_deck(name, &deck(conv, start, run))?;
     let table = parse_table(&data).map_err(|e| format!("{e} ({deck_path})"))?;
     let t = table.column("time")?;
     let v_out = table.column("v(out)")?;
+    let v_cap = table.column("v(nc)")?;
     let i_l = table.column("l1#branch")?;
     let i_in = table.column("vinm#branch")?;
     let i_load = table.column("vloadm#branch")?;
@@ -329,6 +349,16 @@ pub fn simulate(name: &str, conv: &Converter, start: Start, run: Run) -> Result<
     .iter()
     .fold(0.0f64, |m, x| m.max(x.abs()));
     let p_out_w = mean(t, &p_load, from, stop);
+    let esr_loss_w = if conv.esr_ohm > 0.0 {
+        let p_esr: Vec<f64> = v_out
+            .iter()
+            .zip(v_cap)
+            .map(|(a, b)| (a - b) * (a - b) / conv.esr_ohm)
+            .collect();
+        mean(t, &p_esr, from, stop)
+    } else {
+        0.0
+    };
     let (mut i_l_max_a, mut i_l_min_a, mut points) = (f64::NEG_INFINITY, f64::INFINITY, 0);
     for (&s, &i) in t.iter().zip(i_l) {
         if s >= from {
@@ -337,6 +367,7 @@ pub fn simulate(name: &str, conv: &Converter, start: Start, run: Run) -> Result<
             points += 1;
         }
     }
+    let conducting_fraction = time_above(t, i_l, from, stop, 1e-4 * i_l_max_a) / window;
     Ok(Measured {
         ripple_pp_a: i_l_max_a - i_l_min_a,
         i_l_avg_a,
@@ -347,7 +378,9 @@ pub fn simulate(name: &str, conv: &Converter, start: Start, run: Run) -> Result<
         p_in_w,
         p_out_w,
         efficiency: p_out_w / p_in_w,
+        esr_loss_w,
         drift,
+        conducting_fraction,
         points,
     })
 }
@@ -398,6 +431,17 @@ mod tests {
     }
 
     #[test]
+    fn time_above_places_crossings_between_samples() {
+        // A triangle 0 → 2 → 0 over [0, 2]: above 1 from 0.5 to 1.5.
+        let t = [0.0, 1.0, 2.0, 3.0];
+        let y = [0.0, 2.0, 0.0, 0.0];
+        assert!((time_above(&t, &y, 0.0, 3.0, 1.0) - 1.0).abs() < 1e-15);
+        assert!((time_above(&t, &y, 0.75, 3.0, 1.0) - 0.75).abs() < 1e-15);
+        assert!((time_above(&t, &y, 0.0, 1.25, 1.0) - 0.75).abs() < 1e-15);
+        assert_eq!(time_above(&t, &y, 2.0, 3.0, 1.0), 0.0);
+    }
+
+    #[test]
     fn deck_has_one_pulse_of_duty_times_period_and_complementary_rectifier() {
         let conv = Converter {
             topology: Topology::Buck,
@@ -410,7 +454,7 @@ mod tests {
             esr_ohm: 0.01,
             r_on_main_ohm: 0.1,
             rectifier: Rectifier::Synchronous { r_on_ohm: 0.05 },
-            load: Load::Resistor(6.25),
+            r_load_ohm: 6.25,
         };
         let run = Run {
             settle_periods: 10,
