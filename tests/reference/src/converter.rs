@@ -15,6 +15,12 @@
 //!   width D·T − t_r plus half of each edge). A synchronous rectifier is driven by 1 V minus the
 //!   same pulse and crosses the same threshold at the same instants: dead time is zero, and no
 //!   interval exists where both conduct or neither does.
+//! - **Discontinuous allowed with a synchronous rectifier**
+//!   ([`Rectifier::SynchronousStopping`]): the rectifier's control is (1 − gate)·u(i_L − I_stop),
+//!   ngspice's unit step of the inductor current (read through a 0 V ammeter in series with the
+//!   inductor), so it opens when the current falls to I_stop and stays open until the next
+//!   off-time. A fixed-drop body diode across it carries the remaining I_stop (1 mA in the tests)
+//!   down to zero, as a real one would; an open switch would otherwise interrupt the current.
 //! - **Diode** rectification uses a fixed-drop diode: a voltage source of V_src in series with a
 //!   near-ideal junction (`D` model, I_s = 1 pA, emission coefficient N = 0.02, no series
 //!   resistance, no charge storage). Its drop is V_src plus N·V_T·ln(I/I_s) ≈ 14 mV at 0.8 A,
@@ -86,8 +92,17 @@ impl FixedDropDiode {
 /// What carries the inductor current while the main switch is off.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub enum Rectifier {
-    /// A second switch of this on-resistance, Ω, driven as the main switch's complement.
+    /// A second switch of this on-resistance, Ω, driven as the main switch's complement
+    /// (forced continuous: the inductor current may reverse).
     Synchronous { r_on_ohm: f64 },
+    /// A second switch driven as the main switch's complement but opened while the inductor
+    /// current is below `stop_below_a` (a controller that lets the current stop: discontinuous
+    /// conduction allowed). A body diode across it carries the last `stop_below_a` down to zero.
+    SynchronousStopping {
+        r_on_ohm: f64,
+        stop_below_a: f64,
+        body_diode: FixedDropDiode,
+    },
     /// A fixed-drop diode.
     Diode(FixedDropDiode),
 }
@@ -219,6 +234,24 @@ pub fn deck(conv: &Converter, start: Start, run: Run) -> String {
             writeln!(d, "Srect {} {} one g swrect", rectifier.0, rectifier.1).unwrap();
             writeln!(d, ".model swrect SW(Ron={r_on_ohm:e} Roff=1e8 Vt=0.5 Vh=0)").unwrap();
         }
+        Rectifier::SynchronousStopping {
+            r_on_ohm,
+            stop_below_a,
+            body_diode,
+        } => {
+            // On while the gate is low and the inductor current (through its ammeter) is at
+            // least stop_below_a: u() is ngspice's unit step.
+            writeln!(d, "Srect {} {} rc 0 swrect", rectifier.0, rectifier.1).unwrap();
+            writeln!(
+                d,
+                "Brect rc 0 V = (1 - v(g)) * u(i(Vlm) - {stop_below_a:e})"
+            )
+            .unwrap();
+            writeln!(d, ".model swrect SW(Ron={r_on_ohm:e} Roff=1e8 Vt=0.5 Vh=0)").unwrap();
+            writeln!(d, "Vbody {} bda DC {:e}", rectifier.0, body_diode.source_v).unwrap();
+            writeln!(d, "Dbody bda {} dfix", rectifier.1).unwrap();
+            d.push_str(&body_diode.model_line());
+        }
         Rectifier::Diode(diode) => {
             // Anode a, cathode b: source from a to the junction's anode, junction to b.
             writeln!(d, "Vdrop {} da DC {:e}", rectifier.0, diode.source_v).unwrap();
@@ -232,8 +265,10 @@ pub fn deck(conv: &Converter, start: Start, run: Run) -> String {
         conv.r_on_main_ohm
     )
     .unwrap();
+    // The inductor, an ammeter for the rectifier's control, the winding resistance.
     writeln!(d, "L1 {} nl {:e} ic={:e}", inductor.0, conv.l_h, start.i_l).unwrap();
-    writeln!(d, "Rdcr nl {} {:e}", inductor.1, conv.dcr_ohm).unwrap();
+    d.push_str("Vlm nl nr DC 0\n");
+    writeln!(d, "Rdcr nr {} {:e}", inductor.1, conv.dcr_ohm).unwrap();
     writeln!(d, "Resr out nc {:e}", conv.esr_ohm).unwrap();
     writeln!(d, "Cout nc 0 {:e} ic={:e}", conv.c_out_f, start.v_cap).unwrap();
     // The load behind an ammeter: current out → load positive (negative for inverting).
