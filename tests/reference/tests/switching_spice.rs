@@ -433,11 +433,36 @@ fn buck_synchronous() {
 /// The same buck with a diode of about 0.4 V (a Schottky-like drop, common practice).
 #[test]
 fn buck_diode() {
-    continuous(Case {
-        name: "buck diode 12→5 V 0.8 A",
-        rect: Rect::Diode(0.4),
-        ..BUCK
-    });
+    continuous(BUCK_DIODE);
+}
+
+const BUCK_DIODE: Case = Case {
+    name: "buck diode 12→5 V 0.8 A",
+    rect: Rect::Diode(0.4),
+    ..BUCK
+};
+
+/// The comparison can tell a wrong duty: the same diode buck driven at the lossless duty
+/// V_out/V_in (what an estimate that ignored the drops would report) misses the output by more
+/// than the tolerance.
+#[test]
+fn lossless_duty_misses_the_output() {
+    let case = BUCK_DIODE;
+    let (report, diode) = report_with_measured_drop(&case);
+    let nom = &report.corners[1];
+    let conv = power_stage(&case, diode, nom.vin, nom.duty_ideal);
+    let m = simulate(&case, "lossless duty", &conv, start(&case, nom));
+    let rel = (m.v_out_avg - case.vout) / case.vout;
+    eprintln!(
+        "{}: nom at the lossless duty {:.6}: ngspice output {:.6} V, relative error {rel:+.2e}",
+        case.name, nom.duty_ideal, m.v_out_avg
+    );
+    assert!(
+        rel < -TOLERANCE_CCM,
+        "{}: the lossless duty should leave the output more than {TOLERANCE_CCM} low, \
+         got {rel:+.3e}",
+        case.name
+    );
 }
 
 /// An invented 24 V boost from the same battery (a valve driver), 0.5 A.
