@@ -19,7 +19,7 @@ import {
   h, symbol, formatWith, shareLink, CalculatorElement, VERDICT_WORDS,
 } from './common.js';
 import { renderChart } from './chart.js';
-import { RECTIFIER_FIELDS, FIELD_DEFS as SWITCHING_DEFS } from './switching-widget.js';
+import { FIELD_DEFS as SWITCHING_DEFS, markRectifierFields, otherRectifierField } from './switching-widget.js';
 
 const DROPOUT_MODELS = [
   { value: 'resistive', label: 'MOS pass element (dropout scales with load)' },
@@ -116,31 +116,13 @@ export class RailnoteCompare extends CalculatorElement {
     return api.compareRails(values);
   }
 
-  rectifierNow() {
-    return this.fieldByKey('rectifier').input.value;
-  }
-
   skipField(f) {
-    const r = this.rectifierNow();
-    const other = r === 'synchronous' ? RECTIFIER_FIELDS.diode : r === 'diode' ? RECTIFIER_FIELDS.synchronous : [];
-    return other.includes(f.def.key);
+    return otherRectifierField(this, f);
   }
 
   /** As on the switching page: the other rectifier's fields are disabled and marked in words. */
   beforeCompute() {
-    const r = this.rectifierNow();
-    const words = r === 'diode' ? 'not used with a diode' : 'used with a diode only';
-    for (const f of this.fields) {
-      const off = this.skipField(f);
-      f.input.disabled = off;
-      f.root.classList.toggle('rn-inactive', off);
-      let why = f.root.querySelector('.rn-inactive-why');
-      if (off && !why) {
-        why = h('span', { class: 'rn-inactive-why' });
-        f.root.querySelector('.rn-label').append(why);
-      }
-      if (why) why.textContent = off ? ` (${words})` : '';
-    }
+    markRectifierFields(this);
     const model = this.fieldByKey('ldo-dropout-model').input.value;
     const unused = { classic: ['ldo-dropout', 'ldo-dropout-at'], constant: ['ldo-dropout-at'] }[model] || [];
     for (const f of this.fields) f.root.classList.toggle('rn-unused', unused.includes(f.def.key));

@@ -38,9 +38,38 @@ export const LIGHT_LOAD = [
 
 /** Fields only one rectifier uses; the other rectifier disables them and leaves them out. */
 export const RECTIFIER_FIELDS = {
-  synchronous: ['rect-rds-on', 'rect-qg', 'dead-time', 'body-vf', 'light-load'],
+  synchronous: ['rect-rds-on', 'rect-qg', 'dead-time', 'body-vf'],
   diode: ['diode-vf'],
 };
+/**
+ * Fields a diode design does not use but the API still takes (and ignores): disabled like the
+ * others, still sent. The light-load choice only steers a second switch.
+ */
+export const DIODE_IGNORES = ['light-load'];
+
+/** Disable the fields the chosen rectifier does not use and say so at each (shared with compare). */
+export function markRectifierFields(widget) {
+  const r = widget.fieldByKey('rectifier').input.value;
+  const words = r === 'diode' ? 'not used with a diode' : 'used with a diode only';
+  for (const f of widget.fields) {
+    const off = widget.skipField(f) || (r === 'diode' && DIODE_IGNORES.includes(f.def.key));
+    f.input.disabled = off;
+    f.root.classList.toggle('rn-inactive', off);
+    let why = f.root.querySelector('.rn-inactive-why');
+    if (off && !why) {
+      why = h('span', { class: 'rn-inactive-why' });
+      f.root.querySelector('.rn-label').append(why);
+    }
+    if (why) why.textContent = off ? ` (${words})` : '';
+  }
+}
+
+/** Whether a field belongs to the rectifier not chosen (not read, not sent). */
+export function otherRectifierField(widget, f) {
+  const r = widget.fieldByKey('rectifier').input.value;
+  const other = r === 'synchronous' ? RECTIFIER_FIELDS.diode : r === 'diode' ? RECTIFIER_FIELDS.synchronous : [];
+  return other.includes(f.def.key);
+}
 
 /**
  * The fields, in groups. key = attribute and URL query name; prop = the checkSwitching input key;
@@ -135,20 +164,21 @@ export const FIELD_DEFS = GROUPS.flatMap((g) => g.fields);
 /**
  * The loss terms, in the order they stack. tone and fill tell them apart in the chart (main
  * switch: tone 1; rectifier switch or diode: tone 2; inductor: tone 3; controller: tone 4;
- * switch-node capacitance: tone 5); short is the tag on the bar and in the legend.
+ * switch-node capacitance: tone 5). The terms a design has are numbered in this order, the
+ * number tagging its bar segment, its legend entry and its table row.
  */
 export const LOSS_TERMS = [
-  { prop: 'mainConductionW', short: '1', tone: 1, fill: 'solid', label: 'Main switch conduction' },
-  { prop: 'mainSwitchingW', short: '2', tone: 1, fill: 'hatch', label: 'Main switch transitions (switching)' },
-  { prop: 'mainGateW', short: '3', tone: 1, fill: 'dots', label: 'Main switch gate drive' },
-  { prop: 'rectConductionW', short: '4', tone: 2, fill: 'solid', label: 'Rectifier switch conduction' },
-  { prop: 'rectGateW', short: '5', tone: 2, fill: 'dots', label: 'Rectifier switch gate drive' },
-  { prop: 'deadTimeW', short: '6', tone: 2, fill: 'hatch', label: 'Body diode during the dead time' },
-  { prop: 'diodeW', short: '7', tone: 2, fill: 'cross', label: 'Rectifier diode' },
-  { prop: 'outputCapW', short: '8', tone: 5, fill: 'solid', label: 'Switch-node capacitance' },
-  { prop: 'inductorCopperW', short: '9', tone: 3, fill: 'solid', label: 'Inductor winding (DCR)' },
-  { prop: 'inductorCoreW', short: '10', tone: 3, fill: 'hatch', label: 'Inductor core' },
-  { prop: 'controllerW', short: '11', tone: 4, fill: 'hatch', label: 'Controller quiescent' },
+  { prop: 'mainConductionW', tone: 1, fill: 'solid', label: 'Main switch conduction' },
+  { prop: 'mainSwitchingW', tone: 1, fill: 'hatch', label: 'Main switch transitions (switching)' },
+  { prop: 'mainGateW', tone: 1, fill: 'dots', label: 'Main switch gate drive' },
+  { prop: 'rectConductionW', tone: 2, fill: 'solid', label: 'Rectifier switch conduction' },
+  { prop: 'rectGateW', tone: 2, fill: 'dots', label: 'Rectifier switch gate drive' },
+  { prop: 'deadTimeW', tone: 2, fill: 'hatch', label: 'Body diode during the dead time' },
+  { prop: 'diodeW', tone: 2, fill: 'cross', label: 'Rectifier diode' },
+  { prop: 'outputCapW', tone: 5, fill: 'solid', label: 'Switch-node capacitance' },
+  { prop: 'inductorCopperW', tone: 3, fill: 'solid', label: 'Inductor winding (DCR)' },
+  { prop: 'inductorCoreW', tone: 3, fill: 'hatch', label: 'Inductor core' },
+  { prop: 'controllerW', tone: 4, fill: 'hatch', label: 'Controller quiescent' },
 ];
 
 const CORNER_SUB = { min: 'in,min', nom: 'in,nom', max: 'in,max' };
@@ -180,15 +210,9 @@ export class RailnoteSwitching extends CalculatorElement {
     return api.checkSwitching(values);
   }
 
-  rectifierNow() {
-    return this.fieldByKey('rectifier').input.value;
-  }
-
   /** A field of the other rectifier is not read and not sent. */
   skipField(f) {
-    const r = this.rectifierNow();
-    const other = r === 'synchronous' ? RECTIFIER_FIELDS.diode : r === 'diode' ? RECTIFIER_FIELDS.synchronous : [];
-    return other.includes(f.def.key);
+    return otherRectifierField(this, f);
   }
 
   /**
@@ -196,19 +220,7 @@ export class RailnoteSwitching extends CalculatorElement {
    * text, so a link still holds it, and come back as they were when the rectifier changes back).
    */
   beforeCompute() {
-    const r = this.rectifierNow();
-    const words = r === 'diode' ? 'not used with a diode' : 'used with a diode only';
-    for (const f of this.fields) {
-      const off = this.skipField(f);
-      f.input.disabled = off;
-      f.root.classList.toggle('rn-inactive', off);
-      let why = f.root.querySelector('.rn-inactive-why');
-      if (off && !why) {
-        why = h('span', { class: 'rn-inactive-why' });
-        f.root.querySelector('.rn-label').append(why);
-      }
-      if (why) why.textContent = off ? ` (${words})` : '';
-    }
+    markRectifierFields(this);
   }
 
   resultParts(r) {
@@ -264,7 +276,9 @@ export class RailnoteSwitching extends CalculatorElement {
       ['Main switch, average / RMS', 'mainRmsA', (c) => `${f('current')(c.mainAvgA)} / ${f('current')(c.mainRmsA)}`],
       [this.values.rectifier === 'diode' ? 'Diode, average / RMS' : 'Rectifier switch, average / RMS', 'rectRmsA', (c) => `${f('current')(c.rectAvgA)} / ${f('current')(c.rectRmsA)}`],
       ['Load at the continuous / discontinuous boundary', 'boundaryLoadA', (c) => f('current')(c.boundaryLoadA)],
-      ['Output ripple (capacitance + ESR)', 'outputRippleV', (c) => [f('voltage')(c.outputRippleV), ` (${f('voltage')(c.outputRippleCapV)} + ${f('voltage')(c.outputRippleEsrV)})`]],
+      ['Output ripple, peak to peak', 'outputRippleV', (c) => f('voltage')(c.outputRippleV)],
+      ['… from the capacitance', 'outputRippleCapV', (c) => f('voltage')(c.outputRippleCapV)],
+      ['… from the ESR', 'outputRippleEsrV', (c) => f('voltage')(c.outputRippleEsrV)],
       ['Output power', 'outputW', (c) => f('power')(c.outputW)],
       ['Losses', 'lossW', (c) => f('power')(c.losses && c.losses.totalW)],
       ['Efficiency', 'efficiencyPct', (c) => f('percent')(c.efficiencyPct)],
@@ -295,7 +309,10 @@ export class RailnoteSwitching extends CalculatorElement {
 
   lossBlock(r) {
     const cs = r.corners || [];
-    const terms = LOSS_TERMS.filter((t) => cs.some((c) => c.losses && c.losses[t.prop] > 0));
+    // Only the terms this design has, numbered in order (a diode design has no gate drive of a
+    // second switch, a synchronous one no diode).
+    const terms = LOSS_TERMS.filter((t) => cs.some((c) => c.losses && c.losses[t.prop] > 0))
+      .map((t, i) => ({ ...t, short: String(i + 1) }));
     const api = this.api;
     const width = this.chartWidthNow();
     const chart = renderStackedBars({
@@ -358,8 +375,9 @@ export class RailnoteSwitching extends CalculatorElement {
       description: `Load from ${fmtAxis('current')(x0)} to ${fmtAxis('current')(x1)} on a log axis, efficiency in percent up. `
         + curves.map((c) => `${CORNER_WORDS[c.label] || c.label}: ${fmtAxis('percent')(c.efficiencyPct[0])} at the lightest load, `
           + `${fmtAxis('percent')(c.efficiencyPct[c.efficiencyPct.length - 1])} at the heaviest`).join('; ') + '.',
-      margin: { left: 64 },
-      x: { label: 'Load current (log)', type: 'log', domain: [x0, x1], format: fmtAxis('current') },
+      margin: { left: 84 },
+      // The sweep's own extent (nice: false): 1 % to 120 % of the load, not whole decades.
+      x: { label: 'Load current (log)', type: 'log', domain: [x0, x1], format: fmtAxis('current'), nice: false },
       y: { label: 'Efficiency', domain: [Math.max(0, Math.floor(lo / 10) * 10), 100], format: fmtAxis('percent'), nice: false },
       series,
     });
