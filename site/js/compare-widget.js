@@ -75,15 +75,26 @@ export const GROUPS = [
     title: 'Switching converter',
     fields: [
       sw('topology', 'buck'), sw('rectifier', 'synchronous'), sw('light-load', 'discontinuousAllowed'),
-      sw('fsw', '1 MHz'), sw('inductance', '15 µH'), sw('ripple-ratio', '30 %'), sw('isat', '600 mA'),
-      sw('dcr', '150 mΩ'), sw('core-loss', '5 mW'),
+      sw('fsw', '1 MHz'), sw('iq', '300 µA'), sw('min-on', '80 ns'), sw('max-duty', '95 %'),
+      { key: 'sw-theta-ja', prop: 'swThetaJa', kind: 'thermalResistance', unit: 'K/W', label: 'Junction to ambient of the converter’s package', sym: ['θ', 'JA,sw'], def: '60 K/W',
+        note: 'Switches and controller in one package; the inductor and a diode sit outside it.' },
+    ],
+  },
+  {
+    id: 'converter-lc',
+    title: 'Converter: inductor and output capacitor',
+    fields: [
+      sw('inductance', '15 µH'), sw('ripple-ratio', '30 %'), sw('isat', '600 mA'), sw('dcr', '150 mΩ'), sw('core-loss', '5 mW'),
+      sw('cout', '22 µF'), sw('esr', '5 mΩ'),
+    ],
+  },
+  {
+    id: 'converter-switches',
+    title: 'Converter: switches',
+    fields: [
       sw('main-rds-on', '150 mΩ'), sw('main-qg', '1.5 nC'), sw('rise-time', '5 ns'), sw('fall-time', '5 ns'), sw('drive-v', '5 V'),
       sw('rect-rds-on', '100 mΩ'), sw('rect-qg', '1.5 nC'), sw('dead-time', '15 ns'), sw('body-vf', '0.8 V'), sw('diode-vf', '0.4 V'),
       sw('coss-charge', '0.8 nC'), sw('coss', ''),
-      sw('cout', '22 µF'), sw('esr', '5 mΩ'),
-      sw('iq', '300 µA', { label: 'Controller quiescent current' }), sw('min-on', '80 ns'), sw('max-duty', '95 %'),
-      { key: 'sw-theta-ja', prop: 'swThetaJa', kind: 'thermalResistance', unit: 'K/W', label: 'Junction to ambient of the converter’s package', sym: ['θ', 'JA,sw'], def: '60 K/W',
-        note: 'Switches and controller in one package; the inductor and a diode sit outside it.' },
     ],
   },
 ];
@@ -252,8 +263,8 @@ export class RailnoteCompare extends CalculatorElement {
       description: `Load from ${fmtAxis('current')(xs[0])} to ${fmtAxis('current')(xs[xs.length - 1])} and dissipation on log axes, at the nominal input ${fmtAxis('voltage')(nom ? nom.vin : this.values.vinNom)}. `
         + (cv.linearW ? `Linear: ${fmtAxis('power')(cv.linearW[0])} to ${fmtAxis('power')(cv.linearW[cv.linearW.length - 1])}; ` : 'No linear curve; ')
         + `switching: ${fmtAxis('power')(cv.switchingW[0])} to ${fmtAxis('power')(cv.switchingW[cv.switchingW.length - 1])}.`,
-      margin: { left: 72 },
-      x: { label: 'Load current (log)', type: 'log', domain: [xs[0], xs[xs.length - 1]], format: fmtAxis('current') },
+      margin: { left: 88 },
+      x: { label: 'Load current (log)', type: 'log', domain: [xs[0], xs[xs.length - 1]], format: fmtAxis('current'), nice: false },
       y: { label: 'Dissipation (log)', type: 'log', domain: [Math.min(...ys), Math.max(...ys)], format: fmtAxis('power') },
       series,
     });
