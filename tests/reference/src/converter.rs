@@ -164,8 +164,17 @@ pub struct Measured {
     pub p_in_w: f64,
     /// Average power into the load, W.
     pub p_out_w: f64,
-    /// p_out / p_in.
+    /// p_out / (p_out + loss_w): p_out / p_in with the stored-energy rate taken out (the two
+    /// are the same at the periodic steady state).
     pub efficiency: f64,
+    /// The power lost in the stage, W: p_in − p_out less the rate at which the inductor and the
+    /// capacitor gained stored energy over the window (½·L·i² + ½·C·v², end minus start, over
+    /// the window's length). At the periodic steady state that rate is zero; counting it keeps
+    /// the loss, a small difference of two large powers, honest when a slow part of the start
+    /// transient is still left.
+    pub loss_w: f64,
+    /// The rate of change of stored energy that was taken out of the loss, W.
+    pub stored_energy_rate_w: f64,
     /// Power lost in the output capacitor's ESR, W (I_C,rms²·ESR; zero when the ESR is zero).
     pub esr_loss_w: f64,
     /// The largest relative change of the average output voltage, the average inductor current
@@ -290,26 +299,28 @@ pub fn deck(conv: &Converter, start: Start, run: Run) -> String {
     d
 }
 
+/// The value of `y` at `x`, linearly interpolated between the samples around it.
+fn at(t: &[f64], y: &[f64], x: f64) -> f64 {
+    let i = t.partition_point(|&s| s < x).clamp(1, t.len() - 1);
+    let (t0, t1) = (t[i - 1], t[i]);
+    if t1 == t0 {
+        y[i]
+    } else {
+        y[i - 1] + (y[i] - y[i - 1]) * (x - t0) / (t1 - t0)
+    }
+}
+
 /// Time average of `y` over [from, to] by the trapezoidal rule on the samples, the ends
 /// interpolated.
 fn mean(t: &[f64], y: &[f64], from: f64, to: f64) -> f64 {
-    let at = |x: f64| {
-        let i = t.partition_point(|&s| s < x).clamp(1, t.len() - 1);
-        let (t0, t1) = (t[i - 1], t[i]);
-        if t1 == t0 {
-            y[i]
-        } else {
-            y[i - 1] + (y[i] - y[i - 1]) * (x - t0) / (t1 - t0)
-        }
-    };
-    let mut points: Vec<(f64, f64)> = vec![(from, at(from))];
+    let mut points: Vec<(f64, f64)> = vec![(from, at(t, y, from))];
     points.extend(
         t.iter()
             .zip(y)
             .filter(|(&s, _)| s > from && s < to)
             .map(|(&s, &v)| (s, v)),
     );
-    points.push((to, at(to)));
+    points.push((to, at(t, y, to)));
     let area: f64 = points
         .windows(2)
         .map(|w| (w[1].0 - w[0].0) * (w[0].1 + w[1].1) / 2.0)
@@ -384,6 +395,11 @@ pub fn simulate(name: &str, conv: &Converter, start: Start, run: Run) -> Result<
     .iter()
     .fold(0.0f64, |m, x| m.max(x.abs()));
     let p_out_w = mean(t, &p_load, from, stop);
+    let stored = |time: f64| {
+        let (i, v) = (at(t, i_l, time), at(t, v_cap, time));
+        0.5 * conv.l_h * i * i + 0.5 * conv.c_out_f * v * v
+    };
+    let stored_energy_rate_w = (stored(stop) - stored(from)) / window;
     let esr_loss_w = if conv.esr_ohm > 0.0 {
         let p_esr: Vec<f64> = v_out
             .iter()
@@ -412,7 +428,9 @@ pub fn simulate(name: &str, conv: &Converter, start: Start, run: Run) -> Result<
         v_out_avg,
         p_in_w,
         p_out_w,
-        efficiency: p_out_w / p_in_w,
+        efficiency: p_out_w / (p_in_w - stored_energy_rate_w),
+        loss_w: p_in_w - p_out_w - stored_energy_rate_w,
+        stored_energy_rate_w,
         esr_loss_w,
         drift,
         conducting_fraction,
