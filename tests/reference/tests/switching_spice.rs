@@ -60,9 +60,9 @@
 //! converter module); its drop at the case's inductor current is measured in its own ngspice run
 //! and given to core as V_f, so both sides use the same drop.
 //!
-//! SPICE's own error is kept well below the tolerances: the largest time step is 1/200 of the
+//! SPICE's own error is kept well below the tolerances: the largest time step is 1/100 of the
 //! period, reltol 10⁻⁵, gate edges of 10⁻⁴ of the period. Run once with 800 steps per period
-//! instead, no printed figure moved by more than 2.3·10⁻⁴ (relative). Run with
+//! instead, no compared figure moved by more than 1.3·10⁻⁴ (relative). Run with
 //! `cargo test -p railnote-reference --test switching_spice -- --nocapture` to see every figure.
 //! ngspice must be installed (`cargo xtask test` installs Debian's package as root); without it
 //! these tests fail and say so.
@@ -83,7 +83,7 @@ const SETTLED: f64 = 2e-4;
 /// Periods in each measured window.
 const MEASURE_PERIODS: u32 = 20;
 /// The largest SPICE time step is the period divided by this.
-const STEPS_PER_PERIOD: u32 = 200;
+const STEPS_PER_PERIOD: u32 = 100;
 
 /// A synchronous rectifier that lets the current stop opens below this inductor current, A;
 /// its body diode carries the rest down to zero (about 1 µJ·f of loss: nothing next to mW).
