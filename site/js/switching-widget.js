@@ -32,8 +32,8 @@ export const RECTIFIERS = [
 ];
 
 export const LIGHT_LOAD = [
-  { value: 'discontinuousAllowed', label: 'The inductor current may stop (discontinuous allowed)' },
-  { value: 'forcedContinuous', label: 'Kept continuous, current may reverse (forced)' },
+  { value: 'discontinuousAllowed', label: 'Current may stop (discontinuous allowed)' },
+  { value: 'forcedContinuous', label: 'Kept continuous (forced; may reverse)' },
 ];
 
 /** Fields only one rectifier uses; the other rectifier disables them and leaves them out. */
