@@ -282,6 +282,29 @@ test('"open this converter in the switching estimate" carries the converter, wit
   await context.close();
 });
 
+test('from the switching page, "compare with a linear regulator" carries the whole converter', async () => {
+  const { context, page, requests, problems } = await open(browser);
+  await page.goto(url('switching.html?iout=0.5'));
+  await settled(page, 'ready', SW_TAG);
+  const sw = await result(page, SW_TAG);
+  const texts = await page.locator(`${SW_TAG} .rn-inputs`).evaluate((form) => Object.fromEntries([...form.querySelectorAll('input, select')].map((e) => [e.name, e.value])));
+  await page.locator(`${SW_TAG} a[data-carry="compare"]`).click();
+  await page.waitForURL(/compare\.html/);
+  await settled(page, 'ready', TAG);
+  for (const [key, text] of Object.entries(texts)) assert.equal(await field(page, key, TAG).inputValue(), text, `carried ${key}`);
+  const cmp = await result(page, TAG);
+  // The logger's 5 V buck from 12 V: the switching side is the switching page's own estimate.
+  cmp.corners.forEach((c, i) => {
+    close(c.switching.dissipationW, sw.corners[i].losses.totalW, REL, `losses at ${c.label} as on the switching page`);
+    close(c.switching.efficiencyPct, sw.corners[i].efficiencyPct, REL, 'efficiency as on the switching page');
+  });
+  assert.equal(cmp.linearPossible, true, 'a 5 V linear regulator from 10.8 V is possible, if hot');
+  assert.ok(cmp.corners[2].linear.dissipationW > 10 * cmp.corners[2].switching.dissipationW, 'and wastes far more');
+  assert.deepEqual(problems, []);
+  assertSameOrigin(requests);
+  await context.close();
+});
+
 test('the embed page shows the comparison from its link, compactly, and reports its height', async () => {
   const { context, page, requests, problems } = await open(browser);
   const hostUrl = url('made-up-host/compare-notes.html');
