@@ -8,6 +8,9 @@
 //! 4. A 10 000-step T_j(t) series of an eight-stage Foster network (one thermal check each),
 //!    natively (core/examples/bench_thermal.rs) and through the page's own WASM in headless
 //!    Chromium (tests/bench/wasm_thermal.mjs), side by side with their ratio.
+//! 5. Full switching-estimate reports (3 V_in corners × 50 sweep loads each), natively
+//!    (core/examples/bench_switching.rs) and through the page's own WASM in headless Chromium
+//!    (tests/bench/wasm_switching.mjs), side by side with their ratio.
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
@@ -20,6 +23,8 @@ use std::process::Command;
 const LINEAR_CHECKS: &str = "20000";
 /// Thermal checks (10 000-step series each) per run: about half a second natively.
 const THERMAL_CHECKS: &str = "200";
+/// Switching reports (150 sweep points each) per run: about a tenth of a second natively.
+const SWITCHING_CHECKS: &str = "2000";
 
 pub fn bench() -> Result {
     tools::ensure_bench_tools()?;
@@ -28,13 +33,14 @@ pub fn bench() -> Result {
     browser()?;
     native_vs_wasm()?;
     thermal_series()?;
+    switching_sweep()?;
     println!();
     println!("xtask bench: done (figures only; nothing here fails on time)");
     Ok(())
 }
 
 fn sizes() -> Result {
-    header("bench 1/4: WASM size");
+    header("bench 1/5: WASM size");
     let record = bindgen_size_record();
     let raw: u64 = fs::read_to_string(&record)
         .ok()
@@ -56,7 +62,7 @@ fn sizes() -> Result {
 }
 
 fn browser() -> Result {
-    header("bench 2/4: linear page in headless Chromium");
+    header("bench 2/5: linear page in headless Chromium");
     let page = linear_page(&site_dir()).ok_or("site/ has no linear page to measure")?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -68,7 +74,7 @@ fn browser() -> Result {
 }
 
 fn native_vs_wasm() -> Result {
-    header("bench 3/4: the same batch of linear checks, native and WASM (Node)");
+    header("bench 3/5: the same batch of linear checks, native and WASM (Node)");
     let native = native_example("bench_linear", LINEAR_CHECKS)?;
     let wasm = output(
         Command::new("node")
@@ -94,7 +100,7 @@ fn native_vs_wasm() -> Result {
 }
 
 fn thermal_series() -> Result {
-    header("bench 4/4: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
+    header("bench 4/5: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
     let native = native_example("bench_thermal", THERMAL_CHECKS)?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -121,6 +127,36 @@ fn thermal_series() -> Result {
         wasm_ns / native_ns,
         native_ns / steps,
         wasm_ns / steps,
+    );
+    compare_checksums(native, wasm)
+}
+
+fn switching_sweep() -> Result {
+    header("bench 5/5: switching estimate, 3 corners × 50 loads: native and WASM (Chromium)");
+    let native = native_example("bench_switching", SWITCHING_CHECKS)?;
+    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
+    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
+    let wasm = output(
+        Command::new("node")
+            .arg("tests/bench/wasm_switching.mjs")
+            .arg(format!("http://{addr}/"))
+            .arg(SWITCHING_CHECKS)
+            .current_dir(repo_root()),
+    )?;
+    let (native, wasm) = (last_line(&native), last_line(&wasm));
+    println!("native:        {native}");
+    println!("wasm-chromium: {wasm}");
+    let (native_ns, wasm_ns) = (
+        field_of(native, "nsPerCheck")?,
+        field_of(wasm, "nsPerCheck")?,
+    );
+    let points = field_of(native, "points")?;
+    println!(
+        "per full sweep ({points:.0} load points and 3 corners): native {:.1} µs, WASM in \
+         Chromium {:.1} µs: WASM takes {:.2}× the native time (report included)",
+        native_ns / 1e3,
+        wasm_ns / 1e3,
+        wasm_ns / native_ns,
     );
     compare_checksums(native, wasm)
 }
