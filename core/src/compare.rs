@@ -359,18 +359,17 @@ impl ValidCompare {
         let mut tradeoffs = Vec::new();
         tradeoffs.push(match &self.linear {
             Err(_) => String::from(
-                "Step-up and inversion: a linear regulator only steps down, so only the \
-                 switcher can make this rail.",
+                "A linear regulator only steps down: only the switcher can make this rail.",
             ),
             Ok(_) => String::from(
-                "Both can make this rail; a linear regulator only steps down, so it stops \
-                 regulating once V_in falls to V_out plus its dropout.",
+                "A linear regulator only steps down: it stops regulating once V_in falls to \
+                 V_out plus its dropout.",
             ),
         });
         match (corners[1].linear, corners[1].crossing_load_a) {
             (Some(c), Some(crossing)) => tradeoffs.push(format!(
-                "At V_in,nom the linear regulator wastes less below {} of load and the switcher \
-                 wastes less above it; at full load they dissipate {} against {}.",
+                "At V_in,nom the linear regulator wastes less below {} of load, the switcher \
+                 above; at full load they dissipate {} and {}.",
                 show(crossing, Current),
                 show(c.dissipation_w, QuantityKind::Power),
                 show(corners[1].switching.dissipation_w, QuantityKind::Power)
@@ -387,36 +386,31 @@ impl ValidCompare {
             (None, _) => {}
         }
         tradeoffs.push(format!(
-            "Noise: a linear regulator adds no switching ripple; the switcher's output carries \
-             about {} of ripple at {} and its harmonics, which sensitive analog and RF loads \
-             may need filtered.",
+            "Noise: a linear regulator adds no switching ripple; the switcher adds about {} at \
+             {} and its harmonics, which analog and RF loads may need filtered.",
             show(nominal.output_ripple_v, Voltage),
             show(x.fsw, Frequency)
         ));
         tradeoffs.push(String::from(
-            "Supply rejection: a linear regulator attenuates input ripple by its PSRR, high at \
-             low frequency and falling above its loop bandwidth; a switcher's rejection comes from \
-             its control loop and is usually lower at high frequency.",
+            "Supply rejection: a linear regulator's PSRR is high at low frequency and falls above \
+             its loop bandwidth; a switcher's comes from its control loop, usually lower.",
         ));
         tradeoffs.push(String::from(
-            "Interference: the switcher's fast edges and its switching loop radiate and conduct \
-             interference; layout, input filtering and shielding decide how much. A linear \
-             regulator emits none.",
+            "Interference: the switcher's fast edges radiate and conduct; layout and input \
+             filtering decide how much. A linear regulator emits none.",
         ));
         tradeoffs.push(String::from(
             "Transient response: a linear regulator usually answers a load step faster; a \
-             switcher is limited by its loop bandwidth (a fraction of f_sw) and by how fast the \
-             inductor current can slew.",
+             switcher is limited by its loop (a fraction of f_sw) and the inductor's slew.",
         ));
         tradeoffs.push(String::from(
-            "Parts count and area: a linear regulator needs the regulator and two capacitors; a \
-             switcher adds an inductor, larger capacitors, a diode or second switch and careful \
-             layout.",
+            "Parts count: a linear regulator needs two capacitors; a switcher adds an inductor, \
+             larger capacitors, often a diode, and careful layout.",
         ));
         if let Some(c) = corners[1].linear {
             tradeoffs.push(format!(
-                "Efficiency at V_in,nom and full load: linear {}, switching {} (the linear one \
-                 can never exceed V_out/V_in = {}).",
+                "Efficiency at V_in,nom, full load: linear {}, switching {} (linear never \
+                 exceeds V_out/V_in = {}).",
                 show(c.efficiency_pct, Percent),
                 show(corners[1].switching.efficiency_pct, Percent),
                 show(100.0 * x.vout / x.vin_nom, Percent)

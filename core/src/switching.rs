@@ -375,6 +375,18 @@ fn show(value: f64, kind: QuantityKind) -> String {
     format_quantity(value, kind, 3)
 }
 
+/// A refusal whose message puts one quantity between two pieces of text (one formatting site
+/// for every such message keeps the module small).
+fn refuse(
+    field: &'static str,
+    before: &str,
+    value: f64,
+    kind: QuantityKind,
+    after: &str,
+) -> InputError {
+    InputError::new(field, format!("{before}{}{after}", show(value, kind)))
+}
+
 fn show_duty(duty: f64) -> String {
     show(100.0 * duty, QuantityKind::Percent)
 }
@@ -407,28 +419,27 @@ impl SwitchingInput {
     /// problem.
     pub fn validate(&self) -> Result<ValidSwitching, InputError> {
         use QuantityKind::{
-            Capacitance, Charge, Current, Frequency, Inductance, Percent, Power, Resistance, Time,
-            Voltage,
+            Capacitance, Charge, Current, Inductance, Percent, Power, Resistance, Time, Voltage,
         };
         let vin_min = check::at_least("vinMin", "V_in,min", self.vin_min, 1e-3, Voltage)?;
         let vin_nom = check::finite("vinNom", "V_in,nom", self.vin_nom, Voltage)?;
         if vin_nom < vin_min {
-            return Err(InputError::new(
+            return Err(refuse(
                 "vinNom",
-                format!(
-                    "V_in,nom must not be below V_in,min ({})",
-                    show(vin_min, Voltage)
-                ),
+                "V_in,nom must not be below V_in,min (",
+                vin_min,
+                Voltage,
+                ")",
             ));
         }
         let vin_max = check::finite("vinMax", "V_in,max", self.vin_max, Voltage)?;
         if vin_max < vin_nom {
-            return Err(InputError::new(
+            return Err(refuse(
                 "vinMax",
-                format!(
-                    "V_in,max must not be below V_in,nom ({})",
-                    show(vin_nom, Voltage)
-                ),
+                "V_in,max must not be below V_in,nom (",
+                vin_nom,
+                Voltage,
+                ")",
             ));
         }
         let label = match self.topology {
@@ -438,21 +449,21 @@ impl SwitchingInput {
         let vout = check::at_least("vout", label, self.vout, 1e-3, Voltage)?;
         match self.topology {
             Topology::Buck if vout >= vin_min => {
-                return Err(InputError::new(
+                return Err(refuse(
                     "vout",
-                    format!(
-                        "V_out must be below V_in,min ({}) for a buck",
-                        show(vin_min, Voltage)
-                    ),
+                    "V_out must be below V_in,min (",
+                    vin_min,
+                    Voltage,
+                    ") for a buck",
                 ))
             }
             Topology::Boost if vout <= vin_max => {
-                return Err(InputError::new(
+                return Err(refuse(
                     "vout",
-                    format!(
-                        "V_out must be above V_in,max ({}) for a boost: a boost cannot step down",
-                        show(vin_max, Voltage)
-                    ),
+                    "V_out must be above V_in,max (",
+                    vin_max,
+                    Voltage,
+                    ") for a boost: a boost cannot step down",
                 ))
             }
             _ => {}
@@ -464,11 +475,7 @@ impl SwitchingInput {
         if !(1.0..=1e8).contains(&self.fsw) {
             return Err(InputError::new(
                 "fsw",
-                format!(
-                    "f_sw must be between {} and {}",
-                    check::show(1.0, Frequency),
-                    check::show(1e8, Frequency)
-                ),
+                "f_sw must be between 1 Hz and 100 MHz",
             ));
         }
         let fsw = self.fsw;
@@ -537,12 +544,12 @@ impl SwitchingInput {
         let rise = check::at_least("riseTime", "t_r", self.rise_time, 0.0, Time)?;
         let fall = check::at_least("fallTime", "t_f", self.fall_time, 0.0, Time)?;
         if rise + fall >= period {
-            return Err(InputError::new(
+            return Err(refuse(
                 "fallTime",
-                format!(
-                    "t_r + t_f must be shorter than the switching period ({})",
-                    show(period, Time)
-                ),
+                "t_r + t_f must be shorter than the switching period (",
+                period,
+                Time,
+                ")",
             ));
         }
         check::at_least(
@@ -554,12 +561,12 @@ impl SwitchingInput {
         )?;
         check::at_least("driveV", "V_drv", self.drive_v, 0.0, Voltage)?;
         if 2.0 * dead_time >= period {
-            return Err(InputError::new(
+            return Err(refuse(
                 "deadTime",
-                format!(
-                    "Twice the dead time must be shorter than the switching period ({})",
-                    show(period, Time)
-                ),
+                "Twice the dead time must be shorter than the switching period (",
+                period,
+                Time,
+                ")",
             ));
         }
         if let Some(q) = self.coss_charge {
@@ -601,25 +608,21 @@ impl SwitchingInput {
         // The lossless duty is highest at V_in,min for every topology.
         let duty = ideal_duty(self.topology, vin_min, vout);
         if duty > DUTY_CEILING {
-            return Err(InputError::new(
+            return Err(refuse(
                 "vout",
-                format!(
-                    "At V_in,min ({}) {label} needs a duty cycle of {}, beyond the 99 % this \
-                     estimate follows",
-                    show(vin_min, Voltage),
-                    show_duty(duty)
-                ),
+                "At V_in,min this output needs a duty cycle of ",
+                100.0 * duty,
+                Percent,
+                ", beyond the 99 % this estimate follows",
             ));
         }
         if duty > max_duty {
-            return Err(InputError::new(
+            return Err(refuse(
                 "maxDutyPct",
-                format!(
-                    "At V_in,min ({}) the duty cycle must be {}, above the maximum duty ({})",
-                    show(vin_min, Voltage),
-                    show_duty(duty),
-                    show(self.max_duty_pct, Percent)
-                ),
+                "At V_in,min the duty cycle must be ",
+                100.0 * duty,
+                Percent,
+                ", above the maximum duty",
             ));
         }
         let mut valid = ValidSwitching {

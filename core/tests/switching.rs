@@ -571,7 +571,7 @@ fn impossible_designs_and_bad_values_name_the_field() {
                 ..boost.clone()
             },
             "maxDutyPct",
-            "above the maximum duty (70.0 %)",
+            "must be 79.2 %, above the maximum duty",
         ),
         (
             SwitchingInput {
