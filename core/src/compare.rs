@@ -9,7 +9,8 @@
 //! temperature T_j = T_a,max + θJA·P (JESD51-2A definition). The linear side is exactly the
 //! linear check's full-load operating point at that corner. The switching side's junction heat
 //! is the loss inside the regulator's package, taken as every loss except the inductor's
-//! (copper and core) and a rectifier diode's, which dissipate in their own parts.
+//! (copper and core), a rectifier diode's and the output capacitor's ESR loss, which dissipate
+//! in their own parts.
 //!
 //! The crossing load is where the two dissipations are equal at a corner: the difference is
 //! sampled at the switching sweep's 50 log-spaced loads (1 %–120 % of I_out); the first sign
@@ -97,7 +98,8 @@ impl CompareInput {
 pub struct Side {
     /// Every loss of the regulator.
     pub dissipation_w: f64,
-    /// The part of it inside the regulator's package (heats the junction).
+    /// The part of it inside the regulator's package (heats the junction): all but the
+    /// inductor's, a rectifier diode's and the output capacitor's losses.
     pub package_w: f64,
     pub efficiency_pct: f64,
     pub tj_c: f64,

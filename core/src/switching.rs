@@ -42,7 +42,11 @@
 //! with I_on the valley (zero in DCM, none when negative) and I_off the peak, which is
 //! V·I·(t_r + t_f)·f/2 for a flat current; gate drive Q_g·V_drv·f for each switch; dead time
 //! V_bd·t_dt·f·(|I_pk| + |I_valley|) (one edge at I_pk in DCM); switch-node capacitance
-//! ½·C·V_sw²·f or ½·Q_oss·V_sw·f; the inductor's core loss as given; the controller V_in·I_q.
+//! ½·C·V_sw²·f or ½·Q_oss·V_sw·f; the inductor's core loss as given; the controller V_in·I_q;
+//! the output capacitor's ESR I_C,rms²·ESR, where the capacitor carries the inductor current
+//! (buck) or the rectifier current (boost, inverting) less the load, so
+//! I_C,rms² = I_rms² − I_out² (ΔI²/12 for a buck in CCM, I_out²·D/(1 − D) for a boost or
+//! inverting stage with flat current).
 //! The switch node swings V_sw = V_in (buck), V_out (boost) or V_in + |V_out| (inverting).
 //! Input power is P_out + ΣP_loss (energy balance), input current P_in/V_in.
 //!
@@ -272,6 +276,8 @@ pub struct Losses {
     pub inductor_copper_w: f64,
     pub inductor_core_w: f64,
     pub controller_w: f64,
+    /// The output capacitor's ESR carrying its ripple current, I_C,rms²·ESR.
+    pub output_esr_w: f64,
     /// The sum of the others.
     pub total_w: f64,
 }
@@ -875,6 +881,15 @@ impl ValidSwitching {
             inductor_copper_w: l_rms * l_rms * x.dcr,
             inductor_core_w: x.core_loss,
             controller_w: vin * x.iq,
+            // The capacitor carries what the load does not take of the inductor current (buck)
+            // or of the rectifier current (boost, inverting): both average I_out, so its RMS²
+            // is theirs less I_out².
+            output_esr_w: x.esr
+                * match x.topology {
+                    Topology::Buck => l_rms * l_rms - iout * iout,
+                    _ => rect_rms * rect_rms - iout * iout,
+                }
+                .max(0.0),
             total_w: 0.0,
         };
         losses.total_w = losses.main_conduction_w
@@ -887,7 +902,8 @@ impl ValidSwitching {
             + losses.diode_w
             + losses.inductor_copper_w
             + losses.inductor_core_w
-            + losses.controller_w;
+            + losses.controller_w
+            + losses.output_esr_w;
         let output_w = x.vout * iout;
         let input_w = output_w + losses.total_w;
         let cap_v = charge / x.cout;

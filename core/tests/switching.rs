@@ -159,6 +159,9 @@ const CONTROLLER: Pick = ("losses.controller_w", |r| {
     r.corners[NOM].losses.controller_w
 });
 const DIODE: Pick = ("losses.diode_w", |r| r.corners[NOM].losses.diode_w);
+const ESR: Pick = ("losses.output_esr_w", |r| {
+    r.corners[NOM].losses.output_esr_w
+});
 const TOTAL: Pick = ("losses.total_w", |r| r.corners[NOM].losses.total_w);
 const EFFICIENCY: Pick = ("corners[nom].efficiency_pct", |r| {
     r.corners[NOM].efficiency_pct
@@ -254,8 +257,10 @@ fn demo_buck_worked_by_hand() {
     //   dead time V_bd·t_dt·f·(I_pk + I_valley) = 0.7 × 20 ns × 5e5 × 1.6 = 0.0112 W
     //   switch node ½·C·V_in²·f = ½ × 200 pF × 144 × 5e5 = 0.0072 W
     //   copper I_rms²·DCR = 0.0322940663490893 W; core 0.01 W; controller 12 × 1 mA = 0.012 W
-    //   total = 0.191705010378227 W; η = 4 / 4.191705010378227 = 95.4265624631603 %
-    //   I_in = 4.191705010378227 / 12 = 0.349308750864852 A
+    //   output capacitor ESR: the capacitor carries the ripple, I_C,rms² = ΔI²/12 =
+    //   0.00588132698178569 A², × 10 mΩ = 5.88132698178569e-5 W
+    //   total = 0.191763823648045 W; η = 4 / 4.191763823648045 = 95.4252235642142 %
+    //   I_in = 4.191763823648045 / 12 = 0.349313651970670 A
     //   output ripple ΔI/(8·f·C) = 3.01887835484673 mV, ESR ΔI × 10 mΩ = 2.65661295226513 mV
     //   boundary load (lossless) V_out·(1 − V_out/V_in)/(2·L·f) = 5 × 7/12 / 22 = 0.132575757576 A
     //   L for a 30 % ratio at 14.4 V: (14.4 − 5)·(5/14.4)/(0.3 × 0.8 × 5e5) = 27.1990740740741 µH
@@ -286,9 +291,10 @@ fn demo_buck_worked_by_hand() {
                 (CORE, 0.01),
                 (CONTROLLER, 0.012),
                 (DIODE, 0.0),
-                (TOTAL, 0.191705010378227),
-                (EFFICIENCY, 95.4265624631603),
-                (INPUT_CURRENT, 0.349308750864852),
+                (ESR, 5.88132698178569e-5),
+                (TOTAL, 0.191763823648045),
+                (EFFICIENCY, 95.4252235642142),
+                (INPUT_CURRENT, 0.349313651970670),
                 (RIPPLE_CAP, 3.01887835484673e-3),
                 (RIPPLE_ESR, 2.65661295226513e-3),
                 (BOUNDARY, 0.132575757576),
@@ -484,6 +490,7 @@ fn boost_lossy_duty_is_a_consistent_fixed_point() {
         main_rds_on: 0.08,
         rect_rds_on: Some(0.06),
         dcr: 0.04,
+        esr: 0.02,
         ..lossless(Topology::Boost, 5.0, 12.0, 0.6)
     };
     let report = check(&input, Expect::Values(&[], EXACT)).unwrap();
@@ -494,6 +501,14 @@ fn boost_lossy_duty_is_a_consistent_fixed_point() {
     assert!((c.duty * v_on - (1.0 - c.duty) * v_off).abs() < 1e-9);
     assert!((i * (1.0 - c.duty) - 0.6).abs() < 1e-9);
     assert!(c.duty > c.duty_ideal && !c.duty_limited);
+    // The output capacitor carries the rectifier's pulses less the load (charge balance: its
+    // average current is zero), so I_C,rms² = (1 − D)·(I_L² + ΔI²/12) − I_out²; with a flat
+    // current that is the textbook I_out²·D/(1 − D) (from memory).
+    let rect_rms2 = (1.0 - c.duty) * (i * i + c.ripple_a * c.ripple_a / 12.0);
+    let esr_w = 0.02 * (rect_rms2 - 0.36);
+    assert!((c.losses.output_esr_w - esr_w).abs() < 1e-12);
+    let flat = 0.02 * 0.36 * c.duty / (1.0 - c.duty);
+    assert!(c.losses.output_esr_w >= flat && c.losses.output_esr_w < flat * 1.05);
 }
 
 #[test]

@@ -127,7 +127,7 @@ fn close(a: f64, b: f64, rel: f64) -> bool {
     (a - b).abs() <= rel * a.abs().max(b.abs()).max(1e-300)
 }
 
-fn parts(l: &Losses) -> [f64; 11] {
+fn parts(l: &Losses) -> [f64; 12] {
     [
         l.main_conduction_w,
         l.main_switching_w,
@@ -140,6 +140,7 @@ fn parts(l: &Losses) -> [f64; 11] {
         l.inductor_copper_w,
         l.inductor_core_w,
         l.controller_w,
+        l.output_esr_w,
     ]
 }
 
