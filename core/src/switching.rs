@@ -770,14 +770,15 @@ impl ValidSwitching {
     }
 
     /// The DCM operating point (D1, D2, I_pk), or `None` when the converter is continuous at
-    /// this load or the output is out of reach.
-    fn solve_dcm(&self, vin: f64, iout: f64) -> Option<(f64, f64, f64)> {
+    /// this load or the output is out of reach; the flag says it is out of reach (v_on or v_off
+    /// stops being positive at the peak current).
+    fn solve_dcm(&self, vin: f64, iout: f64) -> (Option<(f64, f64, f64)>, bool) {
         let (l, f) = (self.inductance, self.input.fsw);
         let (mut d1, mut d2, mut peak) = (0.0, 0.0, 0.0);
         for _ in 0..ITERATIONS {
             let (v_on, v_off) = (self.v_on(vin, peak / 2.0), self.v_off(vin, peak / 2.0));
             if !(v_on > 0.0 && v_off > 0.0) {
-                return None;
+                return (None, true);
             }
             d1 = self.dcm_duty(v_on, v_off, iout);
             d2 = d1 * v_on / v_off;
@@ -788,7 +789,17 @@ impl ValidSwitching {
                 break;
             }
         }
-        (d1 + d2 < 1.0 && d1 <= DUTY_CEILING).then_some((d1, d2, peak))
+        (
+            (d1 + d2 < 1.0 && d1 <= DUTY_CEILING).then_some((d1, d2, peak)),
+            false,
+        )
+    }
+
+    /// The rectifier lets the inductor current stop (a diode, or a synchronous rectifier in
+    /// discontinuous-allowed mode).
+    pub fn may_stop(&self) -> bool {
+        self.input.rectifier == Rectifier::Diode
+            || self.input.light_load == LightLoad::DiscontinuousAllowed
     }
 
     /// The boundary load at `vin` from the lossless relations.
@@ -808,12 +819,10 @@ impl ValidSwitching {
         let x = &self.input;
         let (l, f) = (self.inductance, x.fsw);
         let period = 1.0 / f;
-        let may_stop =
-            x.rectifier == Rectifier::Diode || x.light_load == LightLoad::DiscontinuousAllowed;
-        let dcm = if may_stop {
+        let (dcm, out_of_reach) = if self.may_stop() {
             self.solve_dcm(vin, iout)
         } else {
-            None
+            (None, false)
         };
 
         let mode;
@@ -842,8 +851,11 @@ impl ValidSwitching {
                 mode = Mode::Continuous;
                 duty_ideal = ideal_duty(x.topology, vin, x.vout);
                 let (d, il, v_on, lim) = self.solve_ccm(vin, iout);
-                (duty, freewheel, idle, limited) = (d, 1.0 - d, 0.0, lim);
                 ripple = v_on * d * period / l;
+                // A rectifier that lets the current stop cannot run continuous with a negative
+                // valley: when the discontinuous solution was out of reach, so is the output.
+                let stopped = out_of_reach && il < ripple / 2.0;
+                (duty, freewheel, idle, limited) = (d, 1.0 - d, 0.0, lim || stopped);
                 i_l = il;
                 (peak, valley) = (il + ripple / 2.0, il - ripple / 2.0);
                 l_rms = libm::sqrt(il * il + ripple * ripple / 12.0);
@@ -1129,12 +1141,25 @@ impl ValidSwitching {
             ));
         }
         if let Some(c) = corners.iter().find(|c| c.inductor_valley_a < 0.0) {
-            warnings.push(format!(
-                "In forced-continuous mode the inductor current reverses in every cycle at {} \
-                 (valley {}); the circulating current keeps light-load losses high.",
-                vin_words(c),
-                show(c.inductor_valley_a, Current)
-            ));
+            warnings.push(if self.may_stop() {
+                // The continuous solution reverses the current, the discontinuous one finds
+                // the interval too long: with drops this large the first-order relations
+                // disagree, and no consistent operating point exists in this model.
+                format!(
+                    "At {} the drops are so large that the continuous and discontinuous \
+                     relations disagree (valley {}): the figures there are not a consistent \
+                     operating point; reduce the resistances or the ripple.",
+                    vin_words(c),
+                    show(c.inductor_valley_a, Current)
+                )
+            } else {
+                format!(
+                    "In forced-continuous mode the inductor current reverses in every cycle \
+                     at {} (valley {}); the circulating current keeps light-load losses high.",
+                    vin_words(c),
+                    show(c.inductor_valley_a, Current)
+                )
+            });
         }
         if short_on_light_load && !short {
             warnings.push(format!(

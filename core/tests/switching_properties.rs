@@ -4,7 +4,8 @@
 //! - conservation of energy: P_in = P_out + ΣP_loss (to 1e-9 relative) at every corner and
 //!   every point of the sweep, and the listed losses add up to the total;
 //! - efficiency is above 0 and below 100 % whenever anything is lost;
-//! - losses rise with the main switch's on-resistance, with the inductor's DCR, and the
+//! - losses rise with the main switch's on-resistance and with the inductor's DCR (the term each
+//!   multiplies always; the total where the ripple is a modest share of the current), and the
 //!   switching terms (transitions, gate drive, dead time, switch-node capacitance) with f_sw;
 //! - every number in a report is finite, also for inputs anywhere inside the validation bounds,
 //!   and an input that is refused names a field and gives a message.
@@ -13,8 +14,8 @@ use proptest::prelude::*;
 use railnote_core::compare::{compare_rails, CompareInput};
 use railnote_core::linear::DropoutModel;
 use railnote_core::switching::{
-    check_switching, Corner, LightLoad, Losses, Rectifier, SwitchingInput, SwitchingReport,
-    Topology,
+    check_switching, Corner, LightLoad, Losses, Mode, Rectifier, SwitchingInput, SwitchingReport,
+    Topology, ValidSwitching,
 };
 
 fn topology() -> impl Strategy<Value = Topology> {
@@ -117,6 +118,13 @@ prop_compose! {
             isat: None,
         }
     }
+}
+
+/// A corner the model has a consistent operating point for: not pinned at the duty ceiling,
+/// and, where the rectifier lets the current stop, not continuous with a negative valley (the
+/// report warns of that case: the drops are too large for the first-order relations).
+fn consistent(valid: &ValidSwitching, c: &Corner) -> bool {
+    !c.duty_limited && !(valid.may_stop() && c.inductor_valley_a < 0.0)
 }
 
 fn run(input: &SwitchingInput) -> SwitchingReport {
@@ -257,18 +265,26 @@ proptest! {
         let base = run(&input);
         let rds = run(&SwitchingInput { main_rds_on: input.main_rds_on + more, ..input.clone() });
         let dcr = run(&SwitchingInput { dcr: input.dcr + more, ..input.clone() });
+        let valid = input.validate().unwrap();
         for k in 0..3 {
             let (b, r, d) = (&base.corners[k], &rds.corners[k], &dcr.corners[k]);
-            // A corner pinned at the duty ceiling is not an operating point; skip it.
-            if b.duty_limited || r.duty_limited || d.duty_limited {
+            if [b, r, d].iter().any(|c| !consistent(&valid, c)) {
                 continue;
             }
+            // The loss each resistance multiplies always rises with it.
             prop_assert!(r.losses.main_conduction_w > b.losses.main_conduction_w);
-            prop_assert!(r.losses.total_w >= b.losses.total_w * (1.0 - 1e-12),
-                "R_DS(on) +{}: {} W → {} W", more, b.losses.total_w, r.losses.total_w);
             prop_assert!(d.losses.inductor_copper_w > b.losses.inductor_copper_w);
-            prop_assert!(d.losses.total_w >= b.losses.total_w * (1.0 - 1e-12),
-                "DCR +{}: {} W → {} W", more, b.losses.total_w, d.losses.total_w);
+            // The total rises too where the ripple is a modest share of the current (CCM,
+            // ripple ratio up to 60 %, the practical range). Outside it the estimate, like the
+            // circuit, may lose slightly less: a larger drop lengthens the on-time, which
+            // lowers the ripple (in DCM the peak) current that the other losses depend on.
+            let modest = |c: &Corner| c.mode == Mode::Continuous && c.ripple_ratio_pct <= 60.0;
+            if modest(b) && modest(r) && modest(d) {
+                prop_assert!(r.losses.total_w >= b.losses.total_w * (1.0 - 1e-12),
+                    "R_DS(on) +{}: {} W → {} W", more, b.losses.total_w, r.losses.total_w);
+                prop_assert!(d.losses.total_w >= b.losses.total_w * (1.0 - 1e-12),
+                    "DCR +{}: {} W → {} W", more, b.losses.total_w, d.losses.total_w);
+            }
         }
     }
 
@@ -281,9 +297,10 @@ proptest! {
         prop_assume!(input.inductance.is_some());
         let faster = SwitchingInput { fsw: (input.fsw * factor).min(9e6), ..input.clone() };
         let (base, fast) = (run(&input), run(&faster));
+        let valid = input.validate().unwrap();
         for k in 0..3 {
             let (b, f) = (&base.corners[k], &fast.corners[k]);
-            if b.duty_limited || f.duty_limited {
+            if !consistent(&valid, b) || !consistent(&valid, f) {
                 continue;
             }
             prop_assert!(switching_terms(&f.losses) >= switching_terms(&b.losses) * (1.0 - 1e-12),
