@@ -390,7 +390,9 @@ fn textbook_dcm_conversion_ratios_lossless() {
     // Given V_in, V_out and the load, the estimate solves for D; putting that D back into the
     // textbook ratio must give V_out/V_in. The loads sit well below the boundary load.
     let lf = 47e-6 * 200e3;
-    let cases: [(Topology, f64, f64, f64, fn(f64, f64) -> f64); 3] = [
+    // (topology, V_in, V_out, I_out, M(D, K))
+    type Case = (Topology, f64, f64, f64, fn(f64, f64) -> f64);
+    let cases: [Case; 3] = [
         (Topology::Buck, 12.0, 5.0, 0.05, |d, k| {
             2.0 / (1.0 + (1.0 + 4.0 * k / (d * d)).sqrt())
         }),

@@ -124,7 +124,7 @@ prop_compose! {
 /// and, where the rectifier lets the current stop, not continuous with a negative valley (the
 /// report warns of that case: the drops are too large for the first-order relations).
 fn consistent(valid: &ValidSwitching, c: &Corner) -> bool {
-    !c.duty_limited && !(valid.may_stop() && c.inductor_valley_a < 0.0)
+    !c.duty_limited && (!valid.may_stop() || c.inductor_valley_a >= 0.0)
 }
 
 fn run(input: &SwitchingInput) -> SwitchingReport {
