@@ -12,6 +12,9 @@
 //! - [`linear`]: the linear rail check.
 //! - [`divider`]: the divider picker: feedback and threshold dividers from standard values,
 //!   with worst case, root-sum-square spread and a seeded Monte Carlo yield.
+//! - [`switching`]: the switching estimate: buck, boost and inverting buck-boost, CCM and DCM,
+//!   losses, efficiency against load.
+//! - [`compare`]: linear or switching: the same rail through both, side by side.
 //! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
 //!   derating, Foster-network transients and pulse trains.
 //!
@@ -27,12 +30,14 @@ extern crate alloc;
 #[cfg(feature = "std")]
 extern crate std;
 
+pub mod compare;
 pub mod divider;
 pub mod error;
 pub mod fields;
 pub mod linear;
 pub mod output;
 pub mod series;
+pub mod switching;
 pub mod thermal;
 pub mod units;
 pub mod verdict;

@@ -167,3 +167,107 @@ fn thermal_reads_lists_and_counts() {
         ("profilePeriods", "expected a whole number")
     );
 }
+
+fn switching_entries() -> Vec<(&'static str, V)> {
+    use V::*;
+    vec![
+        ("topology", T("inverting")),
+        ("rectifier", T("diode")),
+        ("lightLoad", T("forcedContinuous")),
+        ("vinMin", N(10.8)),
+        ("vinNom", N(12.0)),
+        ("vinMax", N(14.4)),
+        ("vout", N(5.0)),
+        ("iout", N(0.8)),
+        ("fsw", N(500e3)),
+        ("rippleRatioPct", N(30.0)),
+        ("mainRdsOn", N(0.1)),
+        ("diodeVf", N(0.45)),
+        ("riseTime", N(10e-9)),
+        ("fallTime", N(12e-9)),
+        ("mainGateCharge", N(5e-9)),
+        ("driveV", N(5.0)),
+        ("cossCharge", N(3e-9)),
+        ("dcr", N(0.05)),
+        ("coreLoss", N(0.01)),
+        ("iq", N(1e-3)),
+        ("cout", N(22e-6)),
+        ("esr", N(0.01)),
+        ("minOnTime", N(100e-9)),
+        ("maxDutyPct", N(90.0)),
+    ]
+}
+
+#[test]
+fn switching_and_comparison_read_every_field_by_its_name() {
+    use railnote_core::compare::CompareInput;
+    use railnote_core::switching::{LightLoad, Rectifier, SwitchingInput, Topology};
+    use V::*;
+    let read = |entries| {
+        SwitchingInput::read(&mut Source {
+            entries,
+            path: String::new(),
+        })
+    };
+    let x = read(switching_entries()).expect("reads");
+    assert_eq!(
+        (x.topology, x.rectifier, x.light_load),
+        (
+            Topology::Inverting,
+            Rectifier::Diode,
+            LightLoad::ForcedContinuous
+        )
+    );
+    assert_eq!(
+        (x.vin_max, x.fall_time, x.max_duty_pct),
+        (14.4, 12e-9, 90.0)
+    );
+    assert_eq!((x.inductance, x.ripple_ratio_pct), (None, Some(30.0)));
+    assert_eq!((x.diode_vf, x.rect_rds_on), (Some(0.45), None));
+    assert_eq!((x.coss_charge, x.coss, x.isat), (Some(3e-9), None, None));
+
+    let mut missing = switching_entries();
+    missing.retain(|(k, _)| *k != "esr");
+    let e = read(missing).unwrap_err();
+    assert_eq!(
+        (e.field.as_str(), e.message.as_str()),
+        ("esr", "a number is needed here")
+    );
+    let mut bad = switching_entries();
+    bad[2].1 = T("sometimes");
+    let e = read(bad).unwrap_err();
+    assert_eq!(e.field, "lightLoad");
+    assert!(e.message.contains(r#""discontinuousAllowed""#));
+
+    // The comparison reads every switching key plus its own.
+    let mut entries = switching_entries();
+    entries.extend([
+        ("taMax", N(60.0)),
+        ("tjMax", N(125.0)),
+        ("swThetaJa", N(40.0)),
+        ("thermalMarginC", N(10.0)),
+        ("ldoIq", N(1e-4)),
+        ("ldoGndPct", N(1.0)),
+        ("ldoDropoutModel", T("constant")),
+        ("ldoDropoutV", N(0.3)),
+        ("ldoDropoutAtA", N(1.0)),
+        ("ldoRatedA", N(1.0)),
+        ("ldoThetaJa", N(25.0)),
+    ]);
+    let c = CompareInput::read(&mut Source {
+        entries: entries.clone(),
+        path: String::new(),
+    })
+    .expect("reads");
+    assert_eq!(c.switching, x);
+    assert_eq!((c.sw_theta_ja, c.ldo_theta_ja), (40.0, 25.0));
+    assert_eq!((c.thermal_margin_c, c.vout_tol_pct), (Some(10.0), None));
+    assert_eq!(c.ldo_dropout_model, DropoutModel::Constant);
+    entries.retain(|(k, _)| *k != "ldoRatedA");
+    let e = CompareInput::read(&mut Source {
+        entries,
+        path: String::new(),
+    })
+    .unwrap_err();
+    assert_eq!(e.field, "ldoRatedA");
+}

@@ -6,10 +6,14 @@
 //! Run with `cargo test -p railnote-core --features serde` (as `cargo xtask test` does).
 #![cfg(feature = "serde")]
 
+use railnote_core::compare::{compare_rails, CompareInput};
 use railnote_core::divider::{check_divider, Distribution, DividerInput, Mode, Topology};
 use railnote_core::linear::{check, DropoutModel, LinearInput};
 use railnote_core::output::{Out, ToOut};
 use railnote_core::series::Series;
+use railnote_core::switching::{
+    check_switching, LightLoad, Rectifier, SwitchingInput, Topology as Converter,
+};
 use railnote_core::thermal::{check_thermal, FosterStage, HeatPath, ProfileStep, ThermalInput};
 use serde_json::{Map, Value};
 
@@ -197,4 +201,96 @@ fn divider_reports_are_the_same_document() {
         "threshold, ratio only",
         &check_divider(&ratio_only).unwrap(),
     );
+}
+
+fn converter(topology: Converter, rectifier: Rectifier, vout: f64, iout: f64) -> SwitchingInput {
+    SwitchingInput {
+        topology,
+        rectifier,
+        light_load: LightLoad::DiscontinuousAllowed,
+        vin_min: 10.8,
+        vin_nom: 12.0,
+        vin_max: 14.4,
+        vout,
+        iout,
+        fsw: 500e3,
+        inductance: None,
+        ripple_ratio_pct: Some(30.0),
+        main_rds_on: 0.1,
+        rect_rds_on: Some(0.05),
+        diode_vf: Some(0.4),
+        rise_time: 10e-9,
+        fall_time: 10e-9,
+        main_gate_charge: 5e-9,
+        rect_gate_charge: Some(5e-9),
+        drive_v: 5.0,
+        dead_time: Some(20e-9),
+        body_diode_vf: Some(0.7),
+        coss_charge: None,
+        coss: Some(200e-12),
+        dcr: 0.05,
+        core_loss: 0.01,
+        iq: 1e-3,
+        cout: 22e-6,
+        esr: 0.01,
+        min_on_time: 100e-9,
+        max_duty_pct: 90.0,
+        isat: Some(1.0),
+    }
+}
+
+#[test]
+fn switching_reports_are_the_same_document() {
+    for (what, input) in [
+        (
+            "buck",
+            converter(Converter::Buck, Rectifier::Synchronous, 5.0, 0.8),
+        ),
+        (
+            "buck, light load",
+            converter(Converter::Buck, Rectifier::Diode, 5.0, 0.02),
+        ),
+        (
+            "boost",
+            converter(Converter::Boost, Rectifier::Diode, 24.0, 0.3),
+        ),
+        (
+            "inverting",
+            converter(Converter::Inverting, Rectifier::Synchronous, 5.0, 0.4),
+        ),
+    ] {
+        check_same(what, &check_switching(&input).unwrap());
+    }
+}
+
+#[test]
+fn comparison_reports_are_the_same_document() {
+    for (what, switching) in [
+        (
+            "buck",
+            converter(Converter::Buck, Rectifier::Synchronous, 5.0, 0.8),
+        ),
+        (
+            "boost: no linear side",
+            converter(Converter::Boost, Rectifier::Diode, 24.0, 0.3),
+        ),
+    ] {
+        let input = CompareInput {
+            switching,
+            ta_max: 60.0,
+            tj_max: 125.0,
+            sw_theta_ja: 40.0,
+            vout_tol_pct: None,
+            headroom_margin_v: None,
+            thermal_margin_c: None,
+            ldo_iq: 100e-6,
+            ldo_gnd_pct: 1.0,
+            ldo_dropout_model: DropoutModel::Resistive,
+            ldo_dropout_v: 0.5,
+            ldo_dropout_at_a: 1.0,
+            ldo_rated_a: 1.0,
+            ldo_theta_ja: 25.0,
+        };
+        check_same(what, &compare_rails(&input).unwrap());
+    }
 }

@@ -664,4 +664,177 @@ export function renderRangeBars(spec) {
     svg.append(el('line', { class: 'rn-range-center', x1: num(c), x2: num(c), y1: rect.y0, y2: rect.y1, 'stroke-dasharray': DASHES.dashed }));
   }
   return svg;
+// ---- Stacked bars (the loss breakdown of the switching estimate) ----
+//
+// Horizontal bars, one per case (an input corner), each split into parts (one per loss) laid end
+// to end along a linear value axis from zero. A part is told apart by its tone *and* its fill
+// (solid, hatched, dotted, cross-hatched: SVG patterns drawn in the tone), so ten or more parts
+// stay distinct in greyscale print, and by its entry in the legend in words. Each bar ends with
+// its total as text; a segment wide enough for its short tag carries it too.
+
+/** Fill styles of bar segments, in the order parts take them when none is given. */
+export const BAR_FILLS = ['solid', 'hatch', 'dots', 'cross'];
+
+/**
+ * Everything renderStackedBars draws, computed without the DOM (tested in Node).
+ *
+ * spec = {
+ *   width, height,
+ *   bars:  [ { label } ],                          // one bar per case, top to bottom
+ *   parts: [ { label, short, tone: 1..5, fill: 'solid'|'hatch'|'dots'|'cross',
+ *              values: [number per bar] } ],       // stacked left to right in this order
+ *   x: { label, format: v => string, domain: [0, hi] (optional) },
+ *   total: v => string                             // text at the end of each bar (optional)
+ * }
+ * Values that are not finite or not above zero draw nothing (a loss that does not apply).
+ * Returns { width, height, rect, x (as layoutChart's axes), bars: [{ label, y, h, total,
+ * totalLabel, segments: [{ part, x0, x1, value }] }], parts: [{ label, short, tone, fill, used }] }.
+ */
+export function layoutStackedBars(spec) {
+  const width = spec.width || 640;
+  const bars = spec.bars || [];
+  const parts = (spec.parts || []).map((p, i) => ({
+    label: p.label || `part ${i + 1}`,
+    short: p.short || '',
+    tone: Math.min(5, Math.max(1, Math.round(p.tone || (i % 5) + 1))),
+    fill: BAR_FILLS.includes(p.fill) ? p.fill : BAR_FILLS[Math.floor(i / 5) % BAR_FILLS.length],
+    values: (p.values || []).map((v) => (Number.isFinite(v) && v > 0 ? v : 0)),
+  }));
+  const barHeight = spec.barHeight || 30;
+  const gap = spec.barGap || 18;
+  const margin = { top: 14, right: 90, bottom: 50, left: 120, ...(spec.margin || {}) };
+  const height = spec.height || margin.top + margin.bottom + bars.length * barHeight + Math.max(0, bars.length - 1) * gap + gap;
+  const rect = {
+    x0: margin.left,
+    x1: Math.max(margin.left + 10, width - margin.right),
+    y0: margin.top,
+    y1: Math.max(margin.top + 10, height - margin.bottom),
+  };
+  const totals = bars.map((_, b) => parts.reduce((s, p) => s + (p.values[b] || 0), 0));
+  const hi = Math.max(0, ...totals);
+  const a = spec.x || {};
+  const domain = niceDomain(a.domain || [0, hi > 0 ? hi : 1], a.ticks || 5);
+  domain[0] = 0;
+  const scale = makeScale('linear', domain, [rect.x0, rect.x1]);
+  const format = typeof a.format === 'function' ? a.format : plainLabel;
+  const ticks = linearTicks(domain, a.ticks || 5).map((v) => ({ value: v, pos: scale(v), label: safeLabel(format, v) }));
+  const x = { type: 'linear', domain, scale, ticks, minorTicks: [], label: a.label || '' };
+  const inner = rect.y1 - rect.y0;
+  const pitch = bars.length ? inner / bars.length : inner;
+  const h = Math.max(4, Math.min(barHeight, pitch - 6));
+  const totalFormat = typeof spec.total === 'function' ? spec.total : format;
+  const laid = bars.map((bar, b) => {
+    const y = rect.y0 + pitch * b + (pitch - h) / 2;
+    let at = 0;
+    const segments = [];
+    parts.forEach((p, k) => {
+      const v = p.values[b] || 0;
+      if (v <= 0) return;
+      const x0 = scale(at);
+      at += v;
+      segments.push({ part: k, x0, x1: scale(at), value: v });
+    });
+    return { label: bar.label || `bar ${b + 1}`, y, h, total: totals[b], totalLabel: safeLabel(totalFormat, totals[b]), segments };
+  });
+  const used = parts.map((p) => p.values.some((v) => v > 0));
+  return {
+    width, height, rect, x, bars: laid,
+    parts: parts.map((p, i) => ({ label: p.label, short: p.short, tone: p.tone, fill: p.fill, used: used[i] })),
+  };
+}
+
+/** The fill pattern of one (tone, fill) pair, as an SVG <pattern> (none for solid). */
+function barPattern(id, tone, fill) {
+  const pat = el('pattern', { id, patternUnits: 'userSpaceOnUse', width: 6, height: 6 });
+  pat.append(el('rect', { class: `rn-pat-bg rn-tone-${tone}`, x: 0, y: 0, width: 6, height: 6 }));
+  const ink = `rn-pat-ink rn-tone-${tone}`;
+  if (fill === 'hatch') pat.append(el('path', { class: ink, d: 'M-1 1L1 -1M0 6L6 0M5 7L7 5' }));
+  else if (fill === 'cross') pat.append(el('path', { class: ink, d: 'M-1 1L1 -1M0 6L6 0M5 7L7 5M-1 5L1 7M0 0L6 6M5 -1L7 1' }));
+  else if (fill === 'dots') pat.append(el('circle', { class: `rn-pat-dot rn-tone-${tone}`, cx: 3, cy: 3, r: 1.4 }));
+  return pat;
+}
+
+/**
+ * Draw stacked bars. Returns { svg, legend }: the <svg> and an HTML <ul> legend in words (parts
+ * that are zero in every bar are left out of it), each entry with a swatch in the part's own
+ * tone and fill. spec is as for layoutStackedBars, plus title and description.
+ */
+export function renderStackedBars(spec) {
+  const L = layoutStackedBars(spec);
+  const id = `rn-chart-${++chartCounter}`;
+  const svg = el('svg', {
+    viewBox: `0 0 ${L.width} ${L.height}`, role: 'img', 'aria-label': spec.title || 'chart',
+    class: 'rn-chart rn-bars', preserveAspectRatio: 'xMidYMid meet',
+  });
+  svg.append(el('title', {}, spec.title || 'chart'));
+  if (spec.description) svg.append(el('desc', {}, spec.description));
+  const defs = el('defs');
+  const fillOf = new Map();
+  L.parts.forEach((p) => {
+    const key = `${p.tone}-${p.fill}`;
+    if (fillOf.has(key)) return;
+    if (p.fill === 'solid') {
+      fillOf.set(key, null);
+    } else {
+      const pid = `${id}-fill-${key}`;
+      defs.append(barPattern(pid, p.tone, p.fill));
+      fillOf.set(key, `url(#${pid})`);
+    }
+  });
+  svg.append(defs);
+  const { rect } = L;
+  svg.append(el('rect', { class: 'rn-chart-plot', x: rect.x0, y: rect.y0, width: rect.x1 - rect.x0, height: rect.y1 - rect.y0 }));
+  const grid = el('g', { class: 'rn-chart-grid', 'aria-hidden': 'true' });
+  for (const t of L.x.ticks) grid.append(el('line', { x1: t.pos, x2: t.pos, y1: rect.y0, y2: rect.y1 }));
+  svg.append(grid);
+  const body = el('g', { class: 'rn-bar-body' });
+  // A patterned segment takes its fill from the pattern (the fill attribute); a tone class would
+  // override that attribute through the stylesheet, so only solid segments carry one.
+  const segClass = (p) => (p.fill === 'solid' ? `rn-bar-seg rn-tone-${p.tone}` : 'rn-bar-seg rn-bar-patterned');
+  for (const bar of L.bars) {
+    const g = el('g', { class: 'rn-bar' });
+    for (const s of bar.segments) {
+      const p = L.parts[s.part];
+      const w = Math.max(0, s.x1 - s.x0);
+      g.append(el('rect', {
+        class: segClass(p), x: num(s.x0), y: num(bar.y), width: num(w), height: num(bar.h),
+        fill: fillOf.get(`${p.tone}-${p.fill}`) || undefined,
+      }));
+      // A short tag needs about 7 px per character plus some room at the 12 px chart font.
+      if (p.short && w >= p.short.length * 7 + 8) {
+        g.append(el('text', { class: 'rn-bar-tag', x: num((s.x0 + s.x1) / 2), y: num(bar.y + bar.h / 2 + 4), 'text-anchor': 'middle' }, p.short));
+      }
+    }
+    const end = bar.segments.length ? bar.segments[bar.segments.length - 1].x1 : rect.x0;
+    g.append(el('text', { class: 'rn-bar-total', x: num(end + 6), y: num(bar.y + bar.h / 2 + 4), 'text-anchor': 'start' }, bar.totalLabel));
+    body.append(g);
+  }
+  svg.append(body);
+  const axes = el('g', { class: 'rn-chart-axes' });
+  axes.append(el('line', { x1: rect.x0, x2: rect.x1, y1: rect.y1, y2: rect.y1 }));
+  axes.append(el('line', { x1: rect.x0, x2: rect.x0, y1: rect.y0, y2: rect.y1 }));
+  for (const t of L.x.ticks) {
+    axes.append(el('line', { x1: t.pos, x2: t.pos, y1: rect.y1, y2: rect.y1 + 5 }));
+    axes.append(el('text', { x: t.pos, y: rect.y1 + 18, 'text-anchor': 'middle' }, t.label));
+  }
+  for (const bar of L.bars) {
+    axes.append(el('text', { x: rect.x0 - 8, y: num(bar.y + bar.h / 2 + 4), 'text-anchor': 'end' }, bar.label));
+  }
+  axes.append(el('text', { class: 'rn-axis-label', x: (rect.x0 + rect.x1) / 2, y: L.height - 8, 'text-anchor': 'middle' }, L.x.label));
+  svg.append(axes);
+
+  const legend = document.createElement('ul');
+  legend.className = 'rn-legend rn-legend-bars';
+  for (const p of L.parts) {
+    if (!p.used) continue;
+    const li = document.createElement('li');
+    const sw = el('svg', { viewBox: '0 0 36 14', width: 36, height: 14, 'aria-hidden': 'true', class: 'rn-swatch' });
+    sw.append(el('rect', { class: segClass(p), x: 1, y: 1, width: 34, height: 12, fill: fillOf.get(`${p.tone}-${p.fill}`) || undefined }));
+    li.append(sw);
+    const span = document.createElement('span');
+    span.textContent = p.short ? `${p.short}: ${p.label}` : p.label;
+    li.append(span);
+    legend.append(li);
+  }
+  return { svg, legend };
 }

@@ -1,5 +1,6 @@
 // The iframe embed page: one calculator, compact, prefilled from the query (?calc=linear&vin-min=…,
-// ?calc=thermal&power=…, ?calc=divider&vout-target=…).
+// ?calc=thermal&power=…, ?calc=divider&vout-target=…, ?calc=switching&vin-min=…,
+// ?calc=compare&vout=…).
 // Reports its height to the parent page so a host script can size the iframe; hosts that allow no
 // script give the iframe a fixed height (see linear.html#embed).
 import { h, reportEmbedHeight } from './common.js';
@@ -8,6 +9,8 @@ const CALCULATORS = {
   linear: { tag: 'railnote-linear', module: './linear-widget.js', title: 'Linear rail check' },
   thermal: { tag: 'railnote-thermal', module: './thermal-widget.js', title: 'Thermal path' },
   divider: { tag: 'railnote-divider', module: './divider-widget.js', title: 'Divider picker' },
+  switching: { tag: 'railnote-switching', module: './switching-widget.js', title: 'Switching estimate' },
+  compare: { tag: 'railnote-compare', module: './compare-widget.js', title: 'Linear or switching' },
 };
 
 const root = document.getElementById('embed-root');

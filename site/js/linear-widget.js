@@ -89,6 +89,18 @@ const BOUND_WORDS = {
 
 const FULL_PAGE = new URL('../linear.html', import.meta.url).href;
 const THERMAL_PAGE = new URL('../thermal.html', import.meta.url).href;
+const SWITCHING_PAGE = new URL('../switching.html', import.meta.url).href;
+const COMPARE_PAGE = new URL('../compare.html', import.meta.url).href;
+
+/**
+ * This rail's fields as the switching estimate's and the comparison's link keys (see
+ * switchingLink). The comparison's linear regulator takes the ldo- prefixed names.
+ */
+const TO_SWITCHING = [['vin-min', 'vin-min'], ['vin-nom', 'vin-nom'], ['vin-max', 'vin-max'], ['vout', 'vout'], ['iout-max', 'iout']];
+const TO_COMPARE = [...TO_SWITCHING, ['vout-tol', 'vout-tol'], ['ta-max', 'ta-max'], ['tj-max', 'tj-max'],
+  ['headroom-margin', 'headroom-margin'], ['thermal-margin', 'thermal-margin'],
+  ['dropout-model', 'ldo-dropout-model'], ['dropout', 'ldo-dropout'], ['dropout-at', 'ldo-dropout-at'],
+  ['rated', 'ldo-rated'], ['iq', 'ldo-iq'], ['gnd', 'ldo-gnd'], ['theta-ja', 'ldo-theta-ja']];
 const DIVIDER_PAGE = new URL('../divider.html', import.meta.url).href;
 
 export class RailnoteLinear extends CalculatorElement {
@@ -118,14 +130,17 @@ export class RailnoteLinear extends CalculatorElement {
     const parts = [];
     if (r.suggestSwitching) {
       parts.push(h('p', { class: 'rn-suggest' },
-        'Heat or efficiency is what limits this rail, so a switching regulator may suit it better. ',
-        'railnote’s switching estimate is a later calculator; until it arrives, compare by hand.'));
+        'Heat or efficiency is what limits this rail, so a switching regulator may suit it better: ',
+        h('a', { href: this.switchingLink('switching'), class: 'rn-switching-link', 'data-carry': 'switching-suggested' }, 'try this rail as a switcher'),
+        ', or ', h('a', { href: this.switchingLink('compare'), 'data-carry': 'compare-suggested' }, 'compare it with a switching converter'),
+        ' side by side.'));
     }
     parts.push(this.checksBlock(r));
     parts.push(this.warningsBlock(r));
     parts.push(this.limitsBlock(r));
     parts.push(this.cornersBlock(r));
     parts.push(this.thermalCarryOver(r));
+    parts.push(this.switchingCarryOver());
     parts.push(this.dividerCarryOver());
     parts.push(this.windowBlock(r));
     return parts;
@@ -177,6 +192,29 @@ export class RailnoteLinear extends CalculatorElement {
     return h('p', { class: 'rn-carry' },
       h('a', { href: this.dividerLink(), class: 'rn-divider-link', 'data-carry': 'divider' }, 'Pick the divider for this output'),
       `: opens the divider picker with ${this.fmt(this.values.vout, 'voltage', 4)} as the target and ±${this.fmt(this.values.voutTolPct, 'percent', 3)} as the window, to choose the feedback resistors from standard values with their worst case.`);
+  }
+
+  /**
+   * A link to the switching estimate (or the comparison) holding this rail as a buck: its input
+   * corners, output and highest load exactly as typed (the comparison also its limits and this
+   * regulator). The inductance is left empty so the page proposes one for this rail from a 30 %
+   * ripple ratio; the converter's other parts stay that page's example values.
+   */
+  switchingLink(page) {
+    const text = (key) => this.fieldByKey(key).input.value;
+    const texts = new Map([['topology', 'buck']]);
+    for (const [from, to] of page === 'compare' ? TO_COMPARE : TO_SWITCHING) texts.set(to, text(from));
+    texts.set('inductance', '');
+    texts.set('ripple-ratio', '30 %');
+    return shareLink(page === 'compare' ? COMPARE_PAGE : SWITCHING_PAGE, texts);
+  }
+
+  switchingCarryOver() {
+    return h('p', { class: 'rn-carry' },
+      h('a', { href: this.switchingLink('switching'), class: 'rn-switching-link', 'data-carry': 'switching' }, 'Try this rail as a switcher'),
+      ': opens the switching estimate with this rail’s input range, output and highest load as a buck; or ',
+      h('a', { href: this.switchingLink('compare'), 'data-carry': 'compare' }, 'compare it with a switching converter'),
+      ', with this regulator, ambient and junction limit.');
   }
 
   limitsBlock(r) {

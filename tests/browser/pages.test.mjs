@@ -1,16 +1,26 @@
 // Every page: loads cleanly from its own origin only, shows the cautions, has no inline script or
 // handler, and the reference's link-key tables match the widgets. Also screenshots linear.html in
 // light, dark and print (tests/out/, git-ignored) for a person to look at (thermal.html's are
-// taken in thermal.test.mjs, divider.html's in divider.test.mjs).
+// taken in thermal.test.mjs, divider.html's in divider.test.mjs, switching.html's and compare.html's
+// in their own test files).
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import { launch, open, url, assertSameOrigin, settled, field, OUT_DIR } from './browser.mjs';
 
 const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'thermal.html', 'embed.html?calc=thermal',
-  'divider.html', 'embed.html?calc=divider', 'reference.html'];
+  'divider.html', 'embed.html?calc=divider',
+  'switching.html', 'embed.html?calc=switching', 'compare.html', 'embed.html?calc=compare', 'reference.html'];
 /** The calculator element a page shows, if any. */
-const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear' : /divider/.test(p) ? 'railnote-divider' : null);
+const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear'
+  : /divider/.test(p) ? 'railnote-divider'
+  : /switching/.test(p) ? 'railnote-switching' : /compare/.test(p) ? 'railnote-compare' : null);
+/** A field of each calculator the CSP test types into, with a good value for it. */
+const PROBE = {
+  'railnote-linear': ['vin-min', '4.85'], 'railnote-thermal': ['power', '0.49'],
+  'railnote-divider': ['vref', '0.8'],
+  'railnote-switching': ['fsw', '500k'], 'railnote-compare': ['iout', '250m'],
+};
 // The brief's cautions, in the words every page that can lead to hardware must carry.
 const CAUTION_PHRASES = [/first-order/i, /datasheet/i, /measurement/i, /burn/i, /60 V DC/, /mains/i, /local codes/i, /licensed practice/i];
 
@@ -105,6 +115,27 @@ test('the reference lists exactly the divider widget\'s link keys, with their AP
   for (const [, prop] of widget) assert.ok(inputs.includes(prop), `reference documents ${prop}`);
   await context.close();
 });
+for (const [calc, tableId, inputId] of [['switching', 'switching-url-key-table', 'check-switching-input'], ['compare', 'compare-url-key-table', null]]) {
+  test(`the reference lists exactly the ${calc} widget's link keys, with their API names`, async () => {
+    const { context, page } = await open(browser);
+    await page.goto(url('reference.html'));
+    const table = await page.evaluate((id) => [...document.querySelectorAll(`#${id} tbody tr`)].map((tr) => [
+      tr.cells[0].textContent.trim(), tr.cells[1].textContent.trim(), tr.cells[4].textContent.trim(),
+    ]), tableId);
+    const widget = await page.evaluate(async (name) => {
+      const m = await import(`./js/${name}-widget.js`);
+      return m.FIELD_DEFS.map((d) => [d.key, d.prop, d.def === '' ? 'empty' : d.def]);
+    }, calc);
+    assert.deepEqual(table, widget, 'keys, API names and defaults in the widget\'s order');
+    // Every API input key appears in the reference's input tables (compareRails: its own table
+    // for the keys it adds, checkSwitching's for the rest).
+    const inputs = await page.evaluate(() => ['check-switching-input', 'compare-rails-input']
+      .map((id) => document.querySelector(`#${id} + .rn-table-scroll`).textContent).join(' '));
+    for (const [, prop] of widget) assert.ok(inputs.includes(prop), `reference documents ${prop}`);
+    if (inputId) assert.ok(await page.locator(`#${inputId}`).count(), 'input table present');
+    await context.close();
+  });
+}
 
 test('keyboard: Tab reaches the fields with a visible focus ring, and Enter does not reload', async () => {
   const { context, page } = await open(browser);
@@ -182,15 +213,16 @@ test('the pages work under a strict Content-Security-Policy with Trusted Types',
     await route.fulfill({ response, headers: { ...response.headers(), 'content-security-policy': policy } });
   });
   for (const p of ['linear.html?vout=3V3', 'embed.html?calc=linear', 'thermal.html?power=0.4', 'embed.html?calc=thermal',
-    'divider.html?vout-target=1.8', 'embed.html?calc=divider', 'index.html', 'reference.html']) {
+    'divider.html?vout-target=1.8', 'embed.html?calc=divider',
+    'switching.html?rectifier=diode', 'embed.html?calc=switching', 'compare.html?iout=0.2', 'embed.html?calc=compare', 'index.html', 'reference.html']) {
     await page.goto(url(p));
     const tag = TAG_OF(p);
     if (tag) {
-      const key = { 'railnote-linear': 'vin-min', 'railnote-thermal': 'power', 'railnote-divider': 'vref' }[tag];
+      const [key, good] = PROBE[tag];
       assert.equal(await settled(page, 'ready', tag), 'ready', `${p} computes under the policy`);
       await field(page, key, tag).fill('abc');
       assert.equal(await settled(page, 'error', tag), 'error');
-      await field(page, key, tag).fill({ 'railnote-linear': '4.85', 'railnote-thermal': '0.49', 'railnote-divider': '0.8' }[tag]);
+      await field(page, key, tag).fill(good);
       assert.equal(await settled(page, 'ready', tag), 'ready');
     }
     assert.deepEqual(await page.evaluate(() => window.__violations), [], `${p}: no policy violations`);

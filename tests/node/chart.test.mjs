@@ -7,7 +7,7 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import {
   saneDomain, niceStep, niceDomain, linearTicks, logDomain, logTicks, makeScale,
-  clipSegment, clipPolygon, linePath, areaPath, layoutChart,
+  clipSegment, clipPolygon, linePath, areaPath, layoutChart, layoutStackedBars, BAR_FILLS,
 } from '../../site/js/chart.js';
 
 /** Is v = m × 10^n with m in {1, 2, 5} (to rounding)? */
@@ -192,4 +192,49 @@ test('layoutChart: series pass through the scales and stay in the plot area', ()
       assert.ok(x >= L.rect.x0 - 1e-9 && x <= L.rect.x1 + 1e-9 && y >= L.rect.y0 - 1e-9 && y <= L.rect.y1 + 1e-9);
     }
   }
+});
+
+test('layoutStackedBars: segments lie end to end from zero, totals add up, nothing non-finite', () => {
+  // Three made-up loss parts over two bars; the second bar has a part that does not apply (NaN)
+  // and one that is negative (drawn as nothing). Hand-worked: totals 0.5 and 0.3.
+  const L = layoutStackedBars({
+    width: 600,
+    bars: [{ label: 'low' }, { label: 'high' }],
+    parts: [
+      { label: 'a', short: 'A', values: [0.2, 0.1] },
+      { label: 'b', values: [0.25, NaN] },
+      { label: 'c', tone: 3, fill: 'hatch', values: [0.05, 0.2] },
+      { label: 'never', values: [0, -1] },
+    ],
+    x: { label: 'loss', format: (v) => `${v} W` },
+  });
+  assert.deepEqual(L.x.domain, [0, 0.5], 'value axis from zero to the nice total');
+  assert.equal(L.x.ticks[0].pos, L.rect.x0);
+  assert.equal(L.x.ticks.at(-1).label, '0.5 W');
+  const [low, high] = L.bars;
+  assert.ok(Math.abs(low.total - 0.5) < 1e-12 && Math.abs(high.total - 0.3) < 1e-12);
+  assert.deepEqual(low.segments.map((s) => s.part), [0, 1, 2]);
+  assert.deepEqual(high.segments.map((s) => s.part), [0, 2], 'the NaN and the negative part draw nothing');
+  for (const bar of L.bars) {
+    assert.equal(bar.segments[0].x0, L.rect.x0, 'the first segment starts at zero');
+    for (let i = 1; i < bar.segments.length; i++) assert.equal(bar.segments[i].x0, bar.segments[i - 1].x1, 'end to end');
+    const scale = (L.rect.x1 - L.rect.x0) / 0.5;
+    assert.ok(Math.abs(bar.segments.at(-1).x1 - (L.rect.x0 + bar.total * scale)) < 1e-9, 'the last one ends at the total');
+    assert.ok(bar.y >= L.rect.y0 && bar.y + bar.h <= L.rect.y1, 'inside the plot');
+    for (const s of bar.segments) assert.ok([s.x0, s.x1, bar.y, bar.h].every(Number.isFinite));
+  }
+  assert.ok(high.y > low.y, 'bars top to bottom in order');
+  assert.deepEqual(L.parts.map((p) => p.used), [true, true, true, false], 'an all-zero part is marked unused (left out of the legend)');
+  assert.equal(L.parts[2].fill, 'hatch');
+  assert.ok(L.parts.every((p) => BAR_FILLS.includes(p.fill) && p.tone >= 1 && p.tone <= 5));
+});
+
+test('layoutStackedBars: parts beyond five tones change fill, so no two of ten look alike', () => {
+  const parts = Array.from({ length: 10 }, (_, i) => ({ label: `p${i}`, values: [1] }));
+  const L = layoutStackedBars({ bars: [{ label: 'one' }], parts });
+  const looks = new Set(L.parts.map((p) => `${p.tone}/${p.fill}`));
+  assert.equal(looks.size, 10);
+  // No bars and no values: still a usable, finite layout.
+  const E = layoutStackedBars({ bars: [], parts: [] });
+  assert.ok(E.x.domain.every(Number.isFinite) && E.height > 0);
 });

@@ -15,17 +15,19 @@
 mod input;
 
 /// The allocator for the module: talc instead of the standard library's dlmalloc, for size
-/// (railnote's module has a 64 KiB gzip budget; dlmalloc's malloc/free/realloc were about 7 KB
+/// (railnote's module has a gzip size budget; dlmalloc's malloc/free/realloc were about 7 KB
 /// of it). The module is single-threaded (no `atomics` target feature), which this allocator
 /// form requires; its constructor is safe.
 #[cfg(all(not(target_feature = "atomics"), target_family = "wasm"))]
 #[global_allocator]
 static ALLOCATOR: talc::wasm::WasmDynamicTalc = talc::wasm::new_wasm_dynamic_allocator();
 
+use railnote_core::compare::CompareInput;
 use railnote_core::divider::DividerInput;
 use railnote_core::fields::{FieldSource, ReadError};
 use railnote_core::linear::LinearInput;
 use railnote_core::output::{Out, ToOut};
+use railnote_core::switching::SwitchingInput;
 use railnote_core::thermal::ThermalInput;
 use railnote_core::units::{self, QuantityKind};
 use railnote_core::InputError;
@@ -158,6 +160,24 @@ pub fn check_thermal(input: JsValue) -> Result<JsValue, JsValue> {
 pub fn check_divider(input: JsValue) -> Result<JsValue, JsValue> {
     let input = read_input(input, DividerInput::read)?;
     let report = railnote_core::divider::check_divider(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// The switching estimate: buck, boost or inverting buck-boost at each input corner, loss
+/// breakdown and efficiency against load (fields in the site's reference page).
+#[wasm_bindgen(js_name = checkSwitching)]
+pub fn check_switching(input: JsValue) -> Result<JsValue, JsValue> {
+    let input = read_input(input, SwitchingInput::read)?;
+    let report = railnote_core::switching::check_switching(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// Linear or switching: the same rail through the linear check and the switching estimate,
+/// side by side (fields in the site's reference page).
+#[wasm_bindgen(js_name = compareRails)]
+pub fn compare_rails(input: JsValue) -> Result<JsValue, JsValue> {
+    let input = read_input(input, CompareInput::read)?;
+    let report = railnote_core::compare::compare_rails(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
 

@@ -187,3 +187,134 @@ fn thermal_errors_name_list_items() {
     set(&input, "path", "sideways".into());
     assert_eq!(thrown(railnote_wasm::check_thermal(input)).0, "path");
 }
+
+/// The switching demo (invented scenario: the logger's 5.0 V buck from its 12 V lead-acid
+/// battery, 0.8 A; parts invented), as the switching page sends it.
+fn switching_demo() -> JsValue {
+    JSON::parse(
+        r#"{"topology":"buck","rectifier":"synchronous","lightLoad":"discontinuousAllowed",
+            "vinMin":10.8,"vinNom":12,"vinMax":14.4,"vout":5,"iout":0.8,"fsw":500e3,
+            "inductance":22e-6,"rippleRatioPct":30,"mainRdsOn":0.1,"rectRdsOn":0.05,
+            "diodeVf":null,"riseTime":10e-9,"fallTime":10e-9,"mainGateCharge":5e-9,
+            "rectGateCharge":5e-9,"driveV":5,"deadTime":20e-9,"bodyDiodeVf":0.7,
+            "coss":200e-12,"dcr":0.05,"coreLoss":0.01,"iq":1e-3,"cout":22e-6,"esr":0.01,
+            "minOnTime":100e-9,"maxDutyPct":90,"isat":1.5}"#,
+    )
+    .expect("the switching demo is valid JSON")
+}
+
+#[wasm_bindgen_test]
+fn check_switching_returns_a_plain_report() {
+    let report = railnote_wasm::check_switching(switching_demo()).expect("the demo computes");
+    assert_eq!(get(&report, "verdict").as_string().as_deref(), Some("pass"));
+    let corners = get(&report, "corners").dyn_into::<Array>().unwrap();
+    assert_eq!(corners.length(), 3);
+    let nom = corners.get(1);
+    assert_eq!(get(&nom, "label").as_string().as_deref(), Some("nom"));
+    assert_eq!(get(&nom, "mode").as_string().as_deref(), Some("continuous"));
+    // D = 5.08 / 11.96 and the total loss 0.191763823648045 W, hand-worked in core's tests.
+    let duty = get(&nom, "duty").as_f64().unwrap();
+    assert!((duty - 5.08 / 11.96).abs() < 1e-12, "duty = {duty}");
+    let total = get(&nom, "losses.totalW").as_f64().unwrap();
+    assert!(
+        (total - 0.191763823648045).abs() < 1e-12,
+        "totalW = {total}"
+    );
+    assert!(get(&nom, "lForRatioH").as_f64().is_some());
+    let sweep = get(&report, "sweep").dyn_into::<Array>().unwrap();
+    assert_eq!(sweep.length(), 3);
+    let curve = sweep.get(0);
+    assert_eq!(Array::from(&get(&curve, "efficiencyPct")).length(), 50);
+    assert_eq!(
+        Array::from(&get(&curve, "discontinuous")).get(0).as_bool(),
+        Some(true)
+    );
+    assert_eq!(get(&report, "inductanceProposed").as_bool(), Some(false));
+    let json = JSON::stringify(&report).unwrap().as_string().unwrap();
+    assert!(!json.contains("NaN") && !json.contains("Infinity"));
+
+    // Without L the ripple ratio proposes one; the inverting topology takes |V_out|.
+    let input = switching_demo();
+    set(&input, "inductance", JsValue::NULL);
+    let report = railnote_wasm::check_switching(input).expect("L is proposed");
+    assert_eq!(get(&report, "inductanceProposed").as_bool(), Some(true));
+}
+
+#[wasm_bindgen_test]
+fn switching_errors_name_the_field() {
+    let input = switching_demo();
+    set(&input, "vout", 12.0.into());
+    let (field, message) = thrown(railnote_wasm::check_switching(input));
+    assert_eq!(field, "vout");
+    assert!(
+        message.contains("below V_in,min (10.8 V) for a buck"),
+        "{message}"
+    );
+
+    let input = switching_demo();
+    set(&input, "inductance", 0.0.into());
+    assert_eq!(
+        thrown(railnote_wasm::check_switching(input)).0,
+        "inductance"
+    );
+
+    let input = switching_demo();
+    set(&input, "topology", "flyback".into());
+    let (field, message) = thrown(railnote_wasm::check_switching(input));
+    assert_eq!(field, "topology");
+    assert!(message.contains("\"inverting\""), "{message}");
+
+    let input = switching_demo();
+    set(&input, "rectRdsOn", "50 mΩ".into());
+    assert_eq!(thrown(railnote_wasm::check_switching(input)).0, "rectRdsOn");
+}
+
+#[wasm_bindgen_test]
+fn compare_rails_crosses_with_an_impossible_linear_side() {
+    let input = switching_demo();
+    for (key, value) in [
+        ("taMax", 60.0),
+        ("tjMax", 125.0),
+        ("swThetaJa", 40.0),
+        ("ldoIq", 100e-6),
+        ("ldoGndPct", 1.0),
+        ("ldoDropoutV", 0.5),
+        ("ldoDropoutAtA", 1.0),
+        ("ldoRatedA", 1.0),
+        ("ldoThetaJa", 25.0),
+    ] {
+        set(&input, key, value.into());
+    }
+    set(&input, "ldoDropoutModel", "resistive".into());
+    let report = railnote_wasm::compare_rails(input.clone()).expect("the demo compares");
+    assert_eq!(get(&report, "linearPossible").as_bool(), Some(true));
+    assert!(get(&report, "linearImpossible").is_null());
+    // 60 °C + 25 K/W × 7.63664 W at 14.4 V (hand-worked in core's tests).
+    let max = get(&report, "corners").dyn_into::<Array>().unwrap().get(2);
+    let tj = get(&max, "linear.tjC").as_f64().unwrap();
+    assert!((tj - 250.916).abs() < 1e-9, "tjC = {tj}");
+    assert!(Reflect::has(&max, &"crossingLoadA".into()).unwrap());
+    assert!(Array::is_array(&get(&report, "tradeoffs")));
+
+    // A boost: the linear side is a sentence, not a crash.
+    for (key, value) in [
+        ("topology", JsValue::from("boost")),
+        ("vinMin", 4.5.into()),
+        ("vinNom", 5.0.into()),
+        ("vinMax", 5.5.into()),
+        ("vout", 12.0.into()),
+        ("iout", 0.2.into()),
+    ] {
+        set(&input, key, value);
+    }
+    let report = railnote_wasm::compare_rails(input.clone()).expect("a boost compares");
+    assert_eq!(get(&report, "linearPossible").as_bool(), Some(false));
+    let why = get(&report, "linearImpossible").as_string().unwrap();
+    assert!(why.contains("cannot step up"), "{why}");
+    assert!(get(&report, "curves.linearW").is_null());
+
+    set(&input, "ldoThetaJa", 0.0.into());
+    set(&input, "topology", "buck".into());
+    set(&input, "vout", 3.3.into());
+    assert_eq!(thrown(railnote_wasm::compare_rails(input)).0, "ldoThetaJa");
+}

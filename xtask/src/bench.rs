@@ -13,6 +13,9 @@
 //! 5. The divider picker: an exhaustive E192 search over 1 kΩ–1 MΩ and a 100 000-sample Monte
 //!    Carlo run, natively (core/examples/bench_divider.rs) and in headless Chromium
 //!    (tests/bench/wasm_divider.mjs), with their ratios.
+//! 6. Full switching-estimate reports (3 V_in corners × 50 sweep loads each), natively
+//!    (core/examples/bench_switching.rs) and through the page's own WASM in headless Chromium
+//!    (tests/bench/wasm_switching.mjs), side by side with their ratio.
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
@@ -28,6 +31,8 @@ const LINEAR_CHECKS: &str = "20000";
 const THERMAL_CHECKS: &str = "200";
 /// Runs of each divider job: about a quarter of a second natively for both.
 const DIVIDER_RUNS: &str = "20";
+/// Switching reports (150 sweep points each) per run: about a tenth of a second natively.
+const SWITCHING_CHECKS: &str = "2000";
 
 pub fn bench() -> Result {
     tools::ensure_bench_tools()?;
@@ -37,13 +42,14 @@ pub fn bench() -> Result {
     native_vs_wasm()?;
     thermal_series()?;
     divider()?;
+    switching_sweep()?;
     println!();
     println!("xtask bench: done (figures only; nothing here fails on time)");
     Ok(())
 }
 
 fn sizes() -> Result {
-    header("bench 1/5: WASM size");
+    header("bench 1/6: WASM size");
     let record = bindgen_size_record();
     let raw: u64 = fs::read_to_string(&record)
         .ok()
@@ -88,7 +94,7 @@ fn breakdown() -> Result {
 }
 
 fn browser() -> Result {
-    header("bench 2/5: linear page in headless Chromium");
+    header("bench 2/6: linear page in headless Chromium");
     let page = linear_page(&site_dir()).ok_or("site/ has no linear page to measure")?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -100,7 +106,7 @@ fn browser() -> Result {
 }
 
 fn native_vs_wasm() -> Result {
-    header("bench 3/5: the same batch of linear checks, native and WASM (Node)");
+    header("bench 3/6: the same batch of linear checks, native and WASM (Node)");
     let native = native_example("bench_linear", LINEAR_CHECKS)?;
     let wasm = output(
         Command::new("node")
@@ -126,7 +132,7 @@ fn native_vs_wasm() -> Result {
 }
 
 fn thermal_series() -> Result {
-    header("bench 4/5: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
+    header("bench 4/6: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
     let native = native_example("bench_thermal", THERMAL_CHECKS)?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -158,7 +164,7 @@ fn thermal_series() -> Result {
 }
 
 fn divider() -> Result {
-    header("bench 5/5: divider picker, E192 search and 100 000-sample Monte Carlo: native and WASM (Chromium)");
+    header("bench 5/6: divider picker, E192 search and 100 000-sample Monte Carlo: native and WASM (Chromium)");
     let native = native_example("bench_divider", DIVIDER_RUNS)?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -194,6 +200,36 @@ fn divider() -> Result {
         compare_checksums(&native, &wasm)?;
     }
     Ok(())
+}
+
+fn switching_sweep() -> Result {
+    header("bench 6/6: switching estimate, 3 corners × 50 loads: native and WASM (Chromium)");
+    let native = native_example("bench_switching", SWITCHING_CHECKS)?;
+    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
+    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
+    let wasm = output(
+        Command::new("node")
+            .arg("tests/bench/wasm_switching.mjs")
+            .arg(format!("http://{addr}/"))
+            .arg(SWITCHING_CHECKS)
+            .current_dir(repo_root()),
+    )?;
+    let (native, wasm) = (last_line(&native), last_line(&wasm));
+    println!("native:        {native}");
+    println!("wasm-chromium: {wasm}");
+    let (native_ns, wasm_ns) = (
+        field_of(native, "nsPerCheck")?,
+        field_of(wasm, "nsPerCheck")?,
+    );
+    let points = field_of(native, "points")?;
+    println!(
+        "per full sweep ({points:.0} load points and 3 corners): native {:.1} µs, WASM in \
+         Chromium {:.1} µs: WASM takes {:.2}× the native time (report included)",
+        native_ns / 1e3,
+        wasm_ns / 1e3,
+        wasm_ns / native_ns,
+    );
+    compare_checksums(native, wasm)
 }
 
 /// Run one of core's benchmark examples in release mode and return what it printed.

@@ -189,6 +189,27 @@ pub fn simulate(
     power: &[(f64, f64)],
     tran: Transient,
 ) -> Result<Trace, String> {
+    let (data, log, deck_path) = run_deck(name, &foster_deck(stages, power, tran, "out.txt"))?;
+    let trace = parse_wrdata(&data).map_err(|e| format!("{e} ({deck_path})"))?;
+    // A run that gave up early (time step too small) still exits 0: it must reach the end.
+    let last = *trace.t.last().unwrap();
+    if (last - tran.stop).abs() > 1e-9 * tran.stop.max(1.0) {
+        return Err(format!(
+            "ngspice stopped at t = {last} s, not at the end {} s:\n{log}",
+            tran.stop
+        ));
+    }
+    Ok(trace)
+}
+
+/// Runs `ngspice -b deck.cir` on `deck` in a fresh folder under the system temp dir and returns
+/// what the deck wrote to `out.txt` (its `wrdata` file), ngspice's log, and the deck's path (for
+/// messages). The folder is removed after a run that wrote its output and kept after a failure,
+/// so the deck can be run again by hand.
+///
+/// A missing ngspice is an error that says how to install it: the cross-check must never pass
+/// without having run.
+pub fn run_deck(name: &str, deck: &str) -> Result<(String, String, String), String> {
     // One folder per run: tests run in parallel and may share a case name.
     static RUNS: AtomicUsize = AtomicUsize::new(0);
     let run_id = RUNS.fetch_add(1, Ordering::Relaxed);
@@ -203,8 +224,8 @@ pub fn simulate(
     let _ = fs::remove_dir_all(&dir);
     fs::create_dir_all(&dir).map_err(|e| format!("cannot create {}: {e}", dir.display()))?;
     let deck_path = dir.join("deck.cir");
-    fs::write(&deck_path, foster_deck(stages, power, tran, "out.txt"))
-        .map_err(|e| format!("cannot write {}: {e}", deck_path.display()))?;
+    let shown = deck_path.display().to_string();
+    fs::write(&deck_path, deck).map_err(|e| format!("cannot write {shown}: {e}"))?;
     let run = Command::new("ngspice")
         .arg("-b")
         .arg("deck.cir")
@@ -214,7 +235,7 @@ pub fn simulate(
         Ok(out) => out,
         Err(e) if e.kind() == ErrorKind::NotFound => {
             return Err(
-                "ngspice is not installed, so the Foster network cannot be cross-checked. \
+                "ngspice is not installed, so core cannot be cross-checked against it. \
                  Install it with `sudo apt-get install ngspice` (Debian), or run \
                  `cargo xtask test` as root, which installs it"
                     .into(),
@@ -229,28 +250,89 @@ pub fn simulate(
     );
     if !out.status.success() {
         return Err(format!(
-            "ngspice failed ({}) on {}:\n{log}",
-            out.status,
-            deck_path.display()
+            "ngspice failed ({}) on {shown}:\n{log}",
+            out.status
         ));
     }
-    let data = fs::read_to_string(dir.join("out.txt")).map_err(|e| {
-        format!(
-            "ngspice wrote no output for {} ({e}):\n{log}",
-            deck_path.display()
-        )
-    })?;
-    let trace = parse_wrdata(&data).map_err(|e| format!("{e} ({})", deck_path.display()))?;
-    // A run that gave up early (time step too small) still exits 0: it must reach the end.
-    let last = *trace.t.last().unwrap();
-    if (last - tran.stop).abs() > 1e-9 * tran.stop.max(1.0) {
-        return Err(format!(
-            "ngspice stopped at t = {last} s, not at the end {} s:\n{log}",
-            tran.stop
-        ));
-    }
+    let data = fs::read_to_string(dir.join("out.txt"))
+        .map_err(|e| format!("ngspice wrote no output for {shown} ({e}):\n{log}"))?;
     let _ = fs::remove_dir_all(&dir);
-    Ok(trace)
+    Ok((data, log, shown))
+}
+
+/// Columns of a `wrdata` file written with `wr_singlescale` and `wr_vecnames`: the header's
+/// names and one column per name (time first).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Table {
+    pub names: Vec<String>,
+    pub columns: Vec<Vec<f64>>,
+}
+
+impl Table {
+    /// The column named `name` (as ngspice spells it in the header, case-insensitive).
+    pub fn column(&self, name: &str) -> Result<&[f64], String> {
+        self.names
+            .iter()
+            .position(|n| n.eq_ignore_ascii_case(name))
+            .map(|i| self.columns[i].as_slice())
+            .ok_or_else(|| format!("no column {name:?} among {:?}", self.names))
+    }
+}
+
+/// Reads a `wrdata` file of several vectors: the first line that is not all numbers names the
+/// columns; every row of exactly that many numbers is data. Rows must come in increasing time
+/// in the first column (a repeated time at a breakpoint: the later row wins).
+pub fn parse_table(text: &str) -> Result<Table, String> {
+    let mut table = Table::default();
+    for line in text.lines() {
+        let fields: Vec<&str> = line.split_whitespace().collect();
+        if fields.is_empty() {
+            continue;
+        }
+        let numbers: Result<Vec<f64>, _> = fields.iter().map(|f| f.parse::<f64>()).collect();
+        let Ok(row) = numbers else {
+            if table.names.is_empty() {
+                table.names = fields.iter().map(|f| f.to_string()).collect();
+                table.columns = vec![Vec::new(); table.names.len()];
+            }
+            continue;
+        };
+        if table.names.is_empty() {
+            return Err("the ngspice output has data before its header of names".into());
+        }
+        if row.len() != table.names.len() {
+            return Err(format!(
+                "a row of {} numbers under {} names: {line:?}",
+                row.len(),
+                table.names.len()
+            ));
+        }
+        if row.iter().any(|v| !v.is_finite()) {
+            return Err(format!("non-finite value in the ngspice output: {line:?}"));
+        }
+        let t = row[0];
+        match table.columns[0].last() {
+            Some(&last) if t < last => {
+                return Err(format!(
+                    "time goes backwards in the ngspice output at {line:?}"
+                ))
+            }
+            Some(&last) if t == last => {
+                for (column, v) in table.columns.iter_mut().zip(row) {
+                    *column.last_mut().unwrap() = v;
+                }
+            }
+            _ => {
+                for (column, v) in table.columns.iter_mut().zip(row) {
+                    column.push(v);
+                }
+            }
+        }
+    }
+    if table.columns.first().map_or(0, Vec::len) < 2 {
+        return Err("the ngspice output has fewer than two data rows".into());
+    }
+    Ok(table)
 }
 
 #[cfg(test)]
@@ -269,6 +351,20 @@ mod tests {
         assert_eq!(trace.extremes(0.5e-3, 3e-3), (3.0, 2.6));
         assert!(parse_wrdata("0 1\n").is_err());
         assert!(parse_wrdata("0 1\n2 3\n1 4\n").is_err());
+    }
+
+    #[test]
+    fn reads_a_table_of_several_vectors() {
+        let text = " time v(out) l1#branch\n 0.0e+00 1.0 2.0\n 1.0e-6 1.5 2.5\n 1.0e-6 1.6 2.6\n";
+        let table = parse_table(text).unwrap();
+        assert_eq!(table.column("TIME").unwrap(), [0.0, 1e-6]);
+        assert_eq!(table.column("v(out)").unwrap(), [1.0, 1.6]);
+        assert_eq!(table.column("l1#branch").unwrap(), [2.0, 2.6]);
+        assert!(table.column("i(x)").is_err());
+        assert!(parse_table("t a\n0 1\n").is_err());
+        assert!(parse_table("t a\n0 1\n1 2 3\n").is_err());
+        assert!(parse_table("0 1\n1 2\n").is_err());
+        assert!(parse_table("t a\n0 1\n2 3\n1 4\n").is_err());
     }
 
     #[test]
