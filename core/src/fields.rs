@@ -6,7 +6,7 @@
 //!
 //! This is written by hand instead of deriving serde's `Deserialize` because the derived
 //! visitors cost 7–8 KB of WebAssembly per input type before compression (one inlined copy of
-//! the whole reading and error path per field), against railnote's 64 KB budget for every
+//! the whole reading and error path per field), against railnote's size budget for every
 //! calculator together; a read function is a short list of calls into one shared source.
 
 use alloc::format;

@@ -664,6 +664,8 @@ export function renderRangeBars(spec) {
     svg.append(el('line', { class: 'rn-range-center', x1: num(c), x2: num(c), y1: rect.y0, y2: rect.y1, 'stroke-dasharray': DASHES.dashed }));
   }
   return svg;
+}
+
 // ---- Stacked bars (the loss breakdown of the switching estimate) ----
 //
 // Horizontal bars, one per case (an input corner), each split into parts (one per loss) laid end

@@ -9,7 +9,7 @@
 //! Why not serde: serde-wasm-bindgen's deserializer words its errors through serde's
 //! `Unexpected`, which prints floats and escapes strings (about 17 KB of float-printing and
 //! Unicode tables), and the derived visitors cost 7–8 KB per input type (see
-//! `railnote_core::fields`), against a 64 KB budget for every calculator together.
+//! `railnote_core::fields`), against the module's size budget (DEVELOPERS.md).
 
 use js_sys::{Array, Object};
 use railnote_core::fields::{FieldSource, ReadError};
