@@ -179,6 +179,7 @@ export const LOSS_TERMS = [
   { prop: 'inductorCopperW', tone: 3, fill: 'solid', label: 'Inductor winding (DCR)' },
   { prop: 'inductorCoreW', tone: 3, fill: 'hatch', label: 'Inductor core' },
   { prop: 'controllerW', tone: 4, fill: 'hatch', label: 'Controller quiescent' },
+  { prop: 'outputEsrW', tone: 5, fill: 'hatch', label: 'Output capacitor ESR' },
 ];
 
 const CORNER_SUB = { min: 'in,min', nom: 'in,nom', max: 'in,max' };
