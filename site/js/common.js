@@ -627,6 +627,10 @@ export class CalculatorElement extends HTMLElement {
   }
 
   onEdit(e) {
+    // A text field has computed on each `input` already; its `change` on blur would only
+    // recompute the same values and rebuild the results under a click that caused the blur
+    // (a row, a link), losing that click.
+    if (e.type === 'change' && e.target instanceof HTMLInputElement && e.target.type === 'text') return;
     const f = this.fields.find((x) => x.input === e.target);
     if (!f || !this.api) return;
     if (f.def.type === 'select' && f.input.value !== '') setFieldText(f, f.input.value);

@@ -227,16 +227,6 @@ export class RailnoteDivider extends CalculatorElement {
     }
   }
 
-  /**
-   * A text field fires `change` when it loses focus, after its `input` events have already
-   * computed. Computing again then would rebuild the table under the pointer of a click that
-   * caused the blur (choosing a row right after typing), and the click would be lost.
-   */
-  onEdit(e) {
-    if (e.type === 'change' && e.target instanceof HTMLInputElement && e.target.type === 'text') return;
-    super.onEdit(e);
-  }
-
   run(api, values) {
     const input = { ...values };
     // The page counts ranks from 1, as the table shows them; the API indexes from 0.
