@@ -78,6 +78,12 @@ use crate::fields::{choice, required, FieldSource, ReadError};
 pub use crate::linear::CornerLabel;
 use crate::units::{format_quantity, QuantityKind};
 pub use crate::verdict::Status;
+
+/// Below and above these ripple ratios (percent of the full-load inductor current) a warning says
+/// the design is away from the usual starting point, 20–40 % (common practice), with a tolerance
+/// so that the usual range itself never warns.
+const RIPPLE_USUAL_LOW: f64 = 10.0;
+const RIPPLE_USUAL_HIGH: f64 = 60.0;
 use crate::verdict::{overall, titles_with};
 use alloc::format;
 use alloc::string::String;
@@ -1130,6 +1136,25 @@ impl ValidSwitching {
                  pick a standard value near it and enter it as L.",
                 show(self.inductance, Inductance),
                 show(x.ripple_ratio_pct.unwrap_or(0.0), Percent)
+            ));
+        }
+        // Common practice: a ripple ratio of 20–40 % of the load current is the usual starting
+        // point for the inductor; well outside it, say so (a continuous full load only: in
+        // discontinuous conduction the ratio is large by nature).
+        if let Some(c) = corners.iter().find(|c| {
+            c.mode == Mode::Continuous
+                && !(RIPPLE_USUAL_LOW..=RIPPLE_USUAL_HIGH).contains(&c.ripple_ratio_pct)
+        }) {
+            warnings.push(format!(
+                "At full load and {} the ripple ratio is {}, outside the usual 20–40 % starting \
+                 point: {}",
+                vin_words(c),
+                show(c.ripple_ratio_pct, Percent),
+                if c.ripple_ratio_pct > RIPPLE_USUAL_HIGH {
+                    "more inductance lowers the peak current, the core loss and the output ripple"
+                } else {
+                    "a smaller inductor would be smaller and respond faster to load steps"
+                }
             ));
         }
         if let Some(c) = corners.iter().find(|c| c.mode == Mode::Discontinuous) {

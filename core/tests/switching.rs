@@ -817,3 +817,28 @@ fn efficiency_sweep_shape() {
     assert!(forced.sweep[1].discontinuous.iter().all(|&d| !d));
     assert!(forced.sweep[1].loss_w[0] > report.sweep[1].loss_w[0]);
 }
+
+#[test]
+fn a_ripple_ratio_far_from_the_usual_range_is_said_in_words() {
+    // Common practice: 20–40 % of the load current is the usual starting ripple ratio. The demo
+    // buck (22 µH) sits inside it and says nothing; a quarter of that inductance puts the ripple
+    // near 4 × higher, and a far larger one near ¼ as high: each gets a warning in words.
+    let quiet = check(&demo_buck(), Expect::Values(&[], EXACT)).unwrap();
+    assert!(!quiet.warnings.iter().any(|w| w.contains("ripple ratio")));
+    for (l, words) in [(5.5e-6, "more inductance"), (220e-6, "smaller inductor")] {
+        let input = SwitchingInput {
+            inductance: Some(l),
+            light_load: LightLoad::ForcedContinuous,
+            ..demo_buck()
+        };
+        let report = check(&input, Expect::Values(&[], EXACT)).unwrap();
+        assert!(
+            report
+                .warnings
+                .iter()
+                .any(|w| w.contains("usual 20–40 %") && w.contains(words)),
+            "{l}: {:?}",
+            report.warnings
+        );
+    }
+}
