@@ -134,15 +134,7 @@ fn native_vs_wasm() -> Result {
 fn thermal_series() -> Result {
     header("bench 4/6: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
     let native = native_example("bench_thermal", THERMAL_CHECKS)?;
-    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
-    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
-    let wasm = output(
-        Command::new("node")
-            .arg("tests/bench/wasm_thermal.mjs")
-            .arg(format!("http://{addr}/"))
-            .arg(THERMAL_CHECKS)
-            .current_dir(repo_root()),
-    )?;
+    let wasm = in_chromium("wasm_thermal.mjs", THERMAL_CHECKS)?;
     let (native, wasm) = (last_line(&native), last_line(&wasm));
     println!("native:        {native}");
     println!("wasm-chromium: {wasm}");
@@ -166,15 +158,7 @@ fn thermal_series() -> Result {
 fn divider() -> Result {
     header("bench 5/6: divider picker, E192 search and 100 000-sample Monte Carlo: native and WASM (Chromium)");
     let native = native_example("bench_divider", DIVIDER_RUNS)?;
-    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
-    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
-    let wasm = output(
-        Command::new("node")
-            .arg("tests/bench/wasm_divider.mjs")
-            .arg(format!("http://{addr}/"))
-            .arg(DIVIDER_RUNS)
-            .current_dir(repo_root()),
-    )?;
+    let wasm = in_chromium("wasm_divider.mjs", DIVIDER_RUNS)?;
     for job in ["search", "montecarlo"] {
         let pick = |text: &str| -> Result<String> {
             text.lines()
@@ -205,15 +189,7 @@ fn divider() -> Result {
 fn switching_sweep() -> Result {
     header("bench 6/6: switching estimate, 3 corners × 50 loads: native and WASM (Chromium)");
     let native = native_example("bench_switching", SWITCHING_CHECKS)?;
-    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
-    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
-    let wasm = output(
-        Command::new("node")
-            .arg("tests/bench/wasm_switching.mjs")
-            .arg(format!("http://{addr}/"))
-            .arg(SWITCHING_CHECKS)
-            .current_dir(repo_root()),
-    )?;
+    let wasm = in_chromium("wasm_switching.mjs", SWITCHING_CHECKS)?;
     let (native, wasm) = (last_line(&native), last_line(&wasm));
     println!("native:        {native}");
     println!("wasm-chromium: {wasm}");
@@ -230,6 +206,20 @@ fn switching_sweep() -> Result {
         wasm_ns / native_ns,
     );
     compare_checksums(native, wasm)
+}
+
+/// Serve site/ on a free port and run one of tests/bench's Chromium scripts against it with
+/// `count`; returns what the script printed.
+fn in_chromium(script: &str, count: &str) -> Result<String> {
+    let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
+    let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
+    output(
+        Command::new("node")
+            .arg(format!("tests/bench/{script}"))
+            .arg(format!("http://{addr}/"))
+            .arg(count)
+            .current_dir(repo_root()),
+    )
 }
 
 /// Run one of core's benchmark examples in release mode and return what it printed.
