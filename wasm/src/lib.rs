@@ -93,11 +93,44 @@ fn to_js(out: &Out) -> JsValue {
             for (key, value) in fields {
                 // Setting a property on a fresh plain object cannot fail; ignore the Result
                 // rather than unwrap so that no panic path exists.
-                let _ = js_sys::Reflect::set(&object, &JsValue::from_str(key), &to_js(value));
+                let value = to_js(value);
+                let _ = js_sys::Reflect::set(&object, &key_string(key), &value);
             }
             object.into()
         }
     }
+}
+
+/// The JS strings of report keys, made once each: keys are `&'static str`s of core's reports, so
+/// their address identifies them, and a sorted list of (address, string) finds them again. Making
+/// a fresh JS string for every key of every object was most of the cost of writing a report.
+struct KeyStrings(Vec<(usize, JsValue)>);
+
+impl KeyStrings {
+    fn get(&mut self, key: &'static str) -> JsValue {
+        let id = key.as_ptr() as usize;
+        match self.0.binary_search_by_key(&id, |(k, _)| *k) {
+            Ok(at) => self.0[at].1.clone(),
+            Err(at) => {
+                let value = JsValue::from_str(key);
+                self.0.insert(at, (id, value.clone()));
+                value
+            }
+        }
+    }
+}
+
+thread_local! {
+    static KEYS: core::cell::RefCell<KeyStrings> = const { core::cell::RefCell::new(KeyStrings(Vec::new())) };
+}
+
+/// The JS string of a report key, from [`KEYS`] (made afresh in the one case the list is busy,
+/// which the code above never causes, rather than risk a panic).
+fn key_string(key: &'static str) -> JsValue {
+    KEYS.with(|keys| match keys.try_borrow_mut() {
+        Ok(mut keys) => keys.get(key),
+        Err(_) => JsValue::from_str(key),
+    })
 }
 
 fn kind_named(kind: &str) -> Result<QuantityKind, JsValue> {
