@@ -15,6 +15,7 @@
 //! - [`switching`]: the switching estimate: buck, boost and inverting buck-boost, CCM and DCM,
 //!   losses, efficiency against load.
 //! - [`compare`]: linear or switching: the same rail through both, side by side.
+//! - [`tree`]: the rail tree, source to every load, from the leaves up (not yet on a page).
 //! - [`thermal`]: the thermal path: steady chain, measured-case estimates, heat-sink need,
 //!   derating, Foster-network transients and pulse trains.
 //!
@@ -39,6 +40,7 @@ pub mod output;
 pub mod series;
 pub mod switching;
 pub mod thermal;
+pub mod tree;
 pub mod units;
 pub mod verdict;
 

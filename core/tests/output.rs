@@ -15,6 +15,7 @@ use railnote_core::switching::{
     check_switching, LightLoad, Rectifier, SwitchingInput, Topology as Converter,
 };
 use railnote_core::thermal::{check_thermal, FosterStage, HeatPath, ProfileStep, ThermalInput};
+use railnote_core::tree::{check_tree, LoadSpec, RailKind, RailSpec, SourceSpec, TreeInput};
 use serde_json::{Map, Value};
 
 /// Out as a JSON value, numbers as f64 so that 3 and 3.0 compare equal.
@@ -293,4 +294,52 @@ fn comparison_reports_are_the_same_document() {
         };
         check_same(what, &compare_rails(&input).unwrap());
     }
+}
+
+#[test]
+fn tree_reports_are_the_same_document() {
+    let rail = |name: &str, parent: &str, kind, vout| RailSpec {
+        name: String::from(name),
+        parent: String::from(parent),
+        kind,
+        vout,
+        efficiency_pct: Some(90.0),
+        iq: Some(1e-4),
+        dropout_v: Some(0.3),
+        r_on: Some(0.05),
+        theta_ja: Some(80.0),
+        tj_max: Some(125.0),
+        rated_a: Some(1.0),
+    };
+    let input = TreeInput {
+        source: SourceSpec {
+            name: String::from("Battery"),
+            v_min: 10.8,
+            v_nom: 12.0,
+            v_max: 14.4,
+            capacity_mah: Some(7000.0),
+            capacity_wh: None,
+            current_limit_a: Some(0.05),
+        },
+        rails: vec![
+            rail("5V0", "Battery", RailKind::Switching, Some(5.0)),
+            rail("3V3", "5V0", RailKind::Linear, Some(3.3)),
+            rail("Radio switch", "3V3", RailKind::Switch, None),
+        ],
+        loads: vec![LoadSpec {
+            name: String::from("Radio"),
+            rail: String::from("Radio switch"),
+            typ_a: Some(0.03),
+            peak_a: Some(0.25),
+            typ_w: None,
+            peak_w: None,
+            activity_pct: Some(10.0),
+            sleep_a: Some(2e-6),
+        }],
+        ta_max: 60.0,
+    };
+    check_same(
+        "logger tree, failing at the source",
+        &check_tree(&input).unwrap(),
+    );
 }

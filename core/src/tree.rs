@@ -1,0 +1,971 @@
+//! The rail tree: a source feeding rails feeding rails and loads, computed from the leaves up at
+//! the source's lowest, nominal and highest voltage.
+//!
+//! # Method
+//!
+//! Every rail takes its input from its parent (the source or another rail) and gives an output
+//! voltage: a linear regulator its set voltage (or less, in dropout: V_in − V_do), a switching
+//! regulator its set voltage, a plain switch its input less I·R_on. Currents go the other way: a
+//! rail's output current is the sum of its loads' and its child rails' input currents
+//! (Kirchhoff's current law at the rail), and its input current is
+//!
+//! - linear: I_out + I_q (the pass element carries the load current; ground current adds I_q);
+//! - switching, fixed efficiency η: V_out·I_out / (η·V_in) + I_q;
+//! - plain switch: I_out.
+//!
+//! A load draws a current, or a power P (then I = P / V at its rail). Because a switch's drop and
+//! a power load's current depend on each other, voltages (top down) and currents (bottom up) are
+//! alternated until they agree to 1e-12, at most 100 rounds. Each rail's loss is its input power
+//! less its output power, so the source's power equals the loads' power plus every rail's loss
+//! (conservation of energy, checked on random trees by a property test).
+//!
+//! Three load cases: typical (every load at its typical draw), peak (every load at its peak) and
+//! average (each load at its typical draw for its activity fraction and at its sleep current the
+//! rest of the time). Checks use the peak case at the corner where it hurts: headroom at the
+//! lowest source voltage, heat at the highest, with the hottest ambient: T_j = T_a + θJA·P
+//! (JEDEC JESD51-2A's junction-to-ambient relation, as in the thermal path calculator). Battery
+//! runtime is the capacity over the average current (mAh) or the average power (Wh) at the
+//! nominal voltage.
+//!
+//! # Assumptions
+//!
+//! Dropout constant (bipolar-like) for linear rails; switching efficiency fixed over load;
+//! regulators start and stay up (no start-up surge, no undervoltage lockout); the peaks of all
+//! loads coincide, which errs on the safe side.
+//!
+//! # Sources
+//!
+//! Kirchhoff's current law and conservation of energy; JESD51-2A for θJA. Runtime as capacity
+//! over average current: common practice (it ignores the capacity's fall at high discharge rates
+//! and low temperature; derate it from the battery's datasheet).
+
+use crate::error::{check, InputError};
+use crate::fields::{numbers, optional_choice, FieldSource, ReadError};
+use crate::units::{format_quantity, QuantityKind};
+use crate::verdict::{overall, titles_with, Status};
+use alloc::format;
+use alloc::string::String;
+use alloc::vec::Vec;
+
+/// The most rails and loads one tree may hold: far beyond any board, small enough that a pasted
+/// document cannot make the page spin.
+pub const MAX_RAILS: usize = 500;
+pub const MAX_LOADS: usize = 2000;
+/// Rounds of the voltage–current alternation.
+const MAX_ROUNDS: usize = 100;
+
+/// What a rail is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum RailKind {
+    Linear,
+    Switching,
+    Switch,
+}
+
+/// The source: a battery, an adapter, a bus.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SourceSpec {
+    pub name: String,
+    pub v_min: f64,
+    pub v_nom: f64,
+    pub v_max: f64,
+    pub capacity_mah: Option<f64>,
+    pub capacity_wh: Option<f64>,
+    pub current_limit_a: Option<f64>,
+}
+
+/// One rail. Fields a kind does not use are `None`.
+#[derive(Clone, Debug, PartialEq)]
+pub struct RailSpec {
+    pub name: String,
+    pub parent: String,
+    pub kind: RailKind,
+    /// Set output voltage (linear, switching).
+    pub vout: Option<f64>,
+    /// Fixed efficiency, percent (switching).
+    pub efficiency_pct: Option<f64>,
+    /// Quiescent current drawn at the input (linear, switching).
+    pub iq: Option<f64>,
+    /// Dropout voltage (linear).
+    pub dropout_v: Option<f64>,
+    /// On-resistance (switch).
+    pub r_on: Option<f64>,
+    /// θJA of the part, if its temperature is to be checked.
+    pub theta_ja: Option<f64>,
+    pub tj_max: Option<f64>,
+    /// Rated output current, if it is to be checked.
+    pub rated_a: Option<f64>,
+}
+
+/// One load on a rail (or on the source).
+#[derive(Clone, Debug, PartialEq)]
+pub struct LoadSpec {
+    pub name: String,
+    pub rail: String,
+    pub typ_a: Option<f64>,
+    pub peak_a: Option<f64>,
+    pub typ_w: Option<f64>,
+    pub peak_w: Option<f64>,
+    /// Share of the time at the typical draw, percent (default 100).
+    pub activity_pct: Option<f64>,
+    /// Draw the rest of the time (default nothing).
+    pub sleep_a: Option<f64>,
+}
+
+/// The whole tree.
+#[derive(Clone, Debug, PartialEq)]
+pub struct TreeInput {
+    pub source: SourceSpec,
+    pub rails: Vec<RailSpec>,
+    pub loads: Vec<LoadSpec>,
+    pub ta_max: f64,
+}
+
+fn name_of(f: &mut dyn FieldSource, key: &'static str) -> Result<String, ReadError> {
+    f.text(key)?
+        .ok_or_else(|| f.error(key, String::from("a name is needed here")))
+}
+
+impl TreeInput {
+    /// Read the tree from named fields: `sources`, a list of exactly one {name, vMin, vNom,
+    /// vMax, capacityMah, capacityWh, currentLimitA} (a list so that a later version of the
+    /// document can carry several), `rails` [{name, parent, kind, vout, efficiencyPct, iq,
+    /// dropoutV, rOn, thetaJa, tjMax, ratedA}], `loads` [{name, rail, typA, peakA, typW, peakW,
+    /// activityPct, sleepA}], `taMax`.
+    pub fn read(f: &mut dyn FieldSource) -> Result<TreeInput, ReadError> {
+        let mut sources = Vec::new();
+        f.each_object("sources", &mut |s| {
+            let name = name_of(s, "name")?;
+            let [v_min, v_nom, v_max, capacity_mah, capacity_wh, current_limit_a] = numbers(
+                s,
+                &[
+                    "vMin",
+                    "vNom",
+                    "vMax",
+                    "capacityMah",
+                    "capacityWh",
+                    "currentLimitA",
+                ],
+            )?;
+            let need = |s: &mut dyn FieldSource, key, v: Option<f64>| {
+                v.ok_or_else(|| s.error(key, String::from("a number is needed here")))
+            };
+            sources.push(SourceSpec {
+                name,
+                v_min: need(s, "vMin", v_min)?,
+                v_nom: need(s, "vNom", v_nom)?,
+                v_max: need(s, "vMax", v_max)?,
+                capacity_mah,
+                capacity_wh,
+                current_limit_a,
+            });
+            Ok(())
+        })?;
+        let mut rails = Vec::new();
+        f.each_object("rails", &mut |r| {
+            let name = name_of(r, "name")?;
+            let parent = name_of(r, "parent")?;
+            let kind = optional_choice(
+                r,
+                "kind",
+                &[
+                    ("linear", RailKind::Linear),
+                    ("switching", RailKind::Switching),
+                    ("switch", RailKind::Switch),
+                ],
+            )?
+            .ok_or_else(|| {
+                r.error(
+                    "kind",
+                    String::from("expected one of \"linear\", \"switching\", \"switch\""),
+                )
+            })?;
+            let [vout, efficiency_pct, iq, dropout_v, r_on, theta_ja, tj_max, rated_a] = numbers(
+                r,
+                &[
+                    "vout",
+                    "efficiencyPct",
+                    "iq",
+                    "dropoutV",
+                    "rOn",
+                    "thetaJa",
+                    "tjMax",
+                    "ratedA",
+                ],
+            )?;
+            rails.push(RailSpec {
+                name,
+                parent,
+                kind,
+                vout,
+                efficiency_pct,
+                iq,
+                dropout_v,
+                r_on,
+                theta_ja,
+                tj_max,
+                rated_a,
+            });
+            Ok(())
+        })?;
+        let mut loads = Vec::new();
+        f.each_object("loads", &mut |l| {
+            let name = name_of(l, "name")?;
+            let rail = name_of(l, "rail")?;
+            let [typ_a, peak_a, typ_w, peak_w, activity_pct, sleep_a] = numbers(
+                l,
+                &["typA", "peakA", "typW", "peakW", "activityPct", "sleepA"],
+            )?;
+            loads.push(LoadSpec {
+                name,
+                rail,
+                typ_a,
+                peak_a,
+                typ_w,
+                peak_w,
+                activity_pct,
+                sleep_a,
+            });
+            Ok(())
+        })?;
+        let source = match sources.len() {
+            1 => sources.remove(0),
+            _ => return Err(f.error("sources", String::from("exactly one source is needed"))),
+        };
+        let ta_max = f
+            .number("taMax")?
+            .ok_or_else(|| f.error("taMax", String::from("a number is needed here")))?;
+        Ok(TreeInput {
+            source,
+            rails,
+            loads,
+            ta_max,
+        })
+    }
+}
+
+/// Which check a [`Check`] reports.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub enum CheckId {
+    Headroom,
+    Thermal,
+    Rating,
+    SourceLimit,
+}
+
+/// One check of one rail (or the source), its outcome and the reason in words.
+pub type Check = crate::verdict::Check<CheckId>;
+
+/// A load case's three figures.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct Cases {
+    pub typ: f64,
+    pub peak: f64,
+    pub avg: f64,
+}
+
+/// One rail at one source voltage.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct RailResult {
+    pub name: String,
+    /// Input and output voltage at peak load.
+    pub vin: f64,
+    pub vout: f64,
+    pub iout_a: Cases,
+    pub iin_a: Cases,
+    pub loss_w: Cases,
+}
+
+/// One load at one source voltage.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct LoadResult {
+    pub name: String,
+    pub v: f64,
+    pub i_a: Cases,
+    pub p_w: Cases,
+}
+
+/// The tree at one source voltage.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct TreeCorner {
+    pub vin: f64,
+    pub source_a: Cases,
+    pub source_w: Cases,
+    pub loads_w: Cases,
+    pub losses_w: Cases,
+    /// Load power over source power, average case, percent.
+    pub efficiency_pct: f64,
+    pub rails: Vec<RailResult>,
+    pub loads: Vec<LoadResult>,
+}
+
+/// Everything the tree check found.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct TreeReport {
+    pub verdict: Status,
+    pub summary: String,
+    pub checks: Vec<Check>,
+    /// The rail (or source) whose check fails first: the worst check, earliest in the tree.
+    pub first_failure: Option<String>,
+    /// At the source's lowest, nominal and highest voltage.
+    pub corners: [TreeCorner; 3],
+    /// Battery runtime at the nominal voltage and average load, hours.
+    pub runtime_h: Option<f64>,
+}
+
+/// A [`TreeInput`] whose every value and link has been checked, rails in an order where every
+/// parent comes before its children.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ValidTree {
+    input: TreeInput,
+    /// Index into `input.rails`, parents first.
+    order: Vec<usize>,
+    /// For each rail, its parent's index (None: the source).
+    parent: Vec<Option<usize>>,
+    /// For each load, its rail's index (None: the source).
+    load_rail: Vec<Option<usize>>,
+}
+
+fn show(value: f64, kind: QuantityKind) -> String {
+    format_quantity(value, kind, 3)
+}
+
+fn rail_error(name: &str, message: String) -> InputError {
+    let name: String = name.chars().take(40).collect();
+    InputError::new("rails", format!("Rail \"{name}\": {message}"))
+}
+
+impl TreeInput {
+    /// Check every value and every link, and order the rails parents first.
+    pub fn validate(&self) -> Result<ValidTree, InputError> {
+        use QuantityKind::{
+            Current, Percent, Power, Resistance, Temperature, ThermalResistance, Voltage,
+        };
+        let s = &self.source;
+        if s.name.trim().is_empty() {
+            return Err(InputError::new("source", "The source needs a name"));
+        }
+        let v_min = check::above(
+            "source",
+            "The source's lowest voltage",
+            s.v_min,
+            0.0,
+            Voltage,
+        )?;
+        let v_nom = check::finite("source", "The source's nominal voltage", s.v_nom, Voltage)?;
+        let v_max = check::finite("source", "The source's highest voltage", s.v_max, Voltage)?;
+        if !(v_min <= v_nom && v_nom <= v_max) {
+            return Err(InputError::new(
+                "source",
+                "The source's voltages must run lowest ≤ nominal ≤ highest",
+            ));
+        }
+        for v in [s.capacity_mah, s.capacity_wh, s.current_limit_a]
+            .into_iter()
+            .flatten()
+        {
+            check::above(
+                "source",
+                "The source's capacity or current limit",
+                v,
+                0.0,
+                Current,
+            )?;
+        }
+        check::within(
+            "taMax",
+            "The hottest ambient",
+            self.ta_max,
+            -100.0,
+            250.0,
+            Temperature,
+        )?;
+        if self.rails.len() > MAX_RAILS || self.loads.len() > MAX_LOADS {
+            return Err(InputError::new(
+                "rails",
+                format!("A tree holds at most {MAX_RAILS} rails and {MAX_LOADS} loads"),
+            ));
+        }
+        // Names: the source and the rails are what rails and loads hang from, so they must be
+        // unique among themselves; loads must be unique among loads.
+        for (i, r) in self.rails.iter().enumerate() {
+            if r.name.trim().is_empty() {
+                return Err(InputError::new("rails", "Every rail needs a name"));
+            }
+            if r.name == s.name || self.rails[..i].iter().any(|o| o.name == r.name) {
+                return Err(rail_error(&r.name, String::from("the name is used twice")));
+            }
+        }
+        for (i, l) in self.loads.iter().enumerate() {
+            if l.name.trim().is_empty() || self.loads[..i].iter().any(|o| o.name == l.name) {
+                let name: String = l.name.chars().take(40).collect();
+                return Err(InputError::new(
+                    "loads",
+                    format!("Load \"{name}\": every load needs a name of its own"),
+                ));
+            }
+        }
+        let index_of = |name: &str| -> Option<Option<usize>> {
+            if name == s.name {
+                Some(None)
+            } else {
+                self.rails.iter().position(|r| r.name == name).map(Some)
+            }
+        };
+        let mut parent = Vec::with_capacity(self.rails.len());
+        for r in &self.rails {
+            let p = index_of(&r.parent).ok_or_else(|| {
+                let p: String = r.parent.chars().take(40).collect();
+                rail_error(
+                    &r.name,
+                    format!("its parent \"{p}\" is neither the source nor a rail"),
+                )
+            })?;
+            parent.push(p);
+        }
+        let mut load_rail = Vec::with_capacity(self.loads.len());
+        for l in &self.loads {
+            let r = index_of(&l.rail).ok_or_else(|| {
+                let (n, p): (String, String) = (
+                    l.name.chars().take(40).collect(),
+                    l.rail.chars().take(40).collect(),
+                );
+                InputError::new(
+                    "loads",
+                    format!("Load \"{n}\": its rail \"{p}\" is neither the source nor a rail"),
+                )
+            })?;
+            load_rail.push(r);
+        }
+        // Parents first (Kahn's order); a rail never reached sits on a cycle.
+        let mut order = Vec::with_capacity(self.rails.len());
+        let mut placed = alloc::vec![false; self.rails.len()];
+        loop {
+            let before = order.len();
+            for i in 0..self.rails.len() {
+                if !placed[i] && parent[i].is_none_or(|p| placed[p]) {
+                    placed[i] = true;
+                    order.push(i);
+                }
+            }
+            if order.len() == self.rails.len() {
+                break;
+            }
+            if order.len() == before {
+                let i = placed.iter().position(|p| !p).unwrap_or(0);
+                return Err(rail_error(
+                    &self.rails[i].name,
+                    String::from("it feeds itself through its parents (a cycle)"),
+                ));
+            }
+        }
+        // Values, and the highest voltage each rail can give (for "below its own output").
+        let mut highest = alloc::vec![0.0; self.rails.len()];
+        for &i in &order {
+            let r = &self.rails[i];
+            let bad = |m: &str| rail_error(&r.name, String::from(m));
+            let from = parent[i].map_or(v_max, |p| highest[p]);
+            let positive = |v: Option<f64>, what: &str, kind| -> Result<f64, InputError> {
+                let v = v.ok_or_else(|| rail_error(&r.name, format!("{what} is needed")))?;
+                check::above("rails", what, v, 0.0, kind)
+                    .map_err(|e| rail_error(&r.name, e.message))
+            };
+            match r.kind {
+                RailKind::Linear => {
+                    let vout = positive(r.vout, "V_out", Voltage)?;
+                    if vout >= from {
+                        return Err(rail_error(
+                            &r.name,
+                            format!(
+                                "a linear regulator cannot give {} from a parent of at most {}",
+                                show(vout, Voltage),
+                                show(from, Voltage)
+                            ),
+                        ));
+                    }
+                    check::at_least("rails", "V_do", r.dropout_v.unwrap_or(0.0), 0.0, Voltage)
+                        .map_err(|e| rail_error(&r.name, e.message))?;
+                    highest[i] = vout;
+                }
+                RailKind::Switching => {
+                    highest[i] = positive(r.vout, "V_out", Voltage)?;
+                    let eta = positive(r.efficiency_pct, "The efficiency", Percent)?;
+                    if eta > 100.0 {
+                        return Err(bad("the efficiency must not be above 100 %"));
+                    }
+                }
+                RailKind::Switch => {
+                    check::at_least("rails", "R_on", r.r_on.unwrap_or(0.0), 0.0, Resistance)
+                        .map_err(|e| rail_error(&r.name, e.message))?;
+                    highest[i] = from;
+                }
+            }
+            check::at_least("rails", "I_q", r.iq.unwrap_or(0.0), 0.0, Current)
+                .map_err(|e| rail_error(&r.name, e.message))?;
+            if let Some(t) = r.theta_ja {
+                check::above("rails", "θJA", t, 0.0, ThermalResistance)
+                    .map_err(|e| rail_error(&r.name, e.message))?;
+                let tj = r.tj_max.unwrap_or(125.0);
+                check::within("rails", "T_j,max", tj, -100.0, 250.0, Temperature)
+                    .map_err(|e| rail_error(&r.name, e.message))?;
+            }
+            if let Some(a) = r.rated_a {
+                check::above("rails", "The rated current", a, 0.0, Current)
+                    .map_err(|e| rail_error(&r.name, e.message))?;
+            }
+        }
+        for l in &self.loads {
+            let name: String = l.name.chars().take(40).collect();
+            let err =
+                |e: InputError| InputError::new("loads", format!("Load \"{name}\": {}", e.message));
+            let currents = l.typ_a.is_some() || l.peak_a.is_some();
+            let powers = l.typ_w.is_some() || l.peak_w.is_some();
+            if currents == powers {
+                return Err(err(InputError::new(
+                    "loads",
+                    "give its typical and peak current, or its typical and peak power",
+                )));
+            }
+            let (kind, typ, peak) = if currents {
+                (Current, l.typ_a, l.peak_a)
+            } else {
+                (Power, l.typ_w, l.peak_w)
+            };
+            let typ = check::at_least("loads", "The typical draw", typ.unwrap_or(0.0), 0.0, kind)
+                .map_err(err)?;
+            let peak = check::at_least("loads", "The peak draw", peak.unwrap_or(typ), 0.0, kind)
+                .map_err(err)?;
+            if peak < typ {
+                return Err(err(InputError::new(
+                    "loads",
+                    "the peak draw must not be below the typical one",
+                )));
+            }
+            check::within(
+                "loads",
+                "The activity",
+                l.activity_pct.unwrap_or(100.0),
+                0.0,
+                100.0,
+                Percent,
+            )
+            .map_err(err)?;
+            check::at_least(
+                "loads",
+                "The sleep current",
+                l.sleep_a.unwrap_or(0.0),
+                0.0,
+                Current,
+            )
+            .map_err(err)?;
+        }
+        Ok(ValidTree {
+            input: self.clone(),
+            order,
+            parent,
+            load_rail,
+        })
+    }
+}
+
+/// Check and compute in one step.
+pub fn check_tree(input: &TreeInput) -> Result<TreeReport, InputError> {
+    Ok(input.validate()?.report())
+}
+
+/// Which load case.
+#[derive(Clone, Copy, PartialEq)]
+enum Case {
+    Typ,
+    Peak,
+    Avg,
+}
+
+/// The tree solved for one source voltage and one load case.
+struct Solved {
+    v_out: Vec<f64>,
+    v_in: Vec<f64>,
+    i_out: Vec<f64>,
+    i_in: Vec<f64>,
+    load_v: Vec<f64>,
+    load_i: Vec<f64>,
+    source_i: f64,
+}
+
+impl ValidTree {
+    pub fn input(&self) -> &TreeInput {
+        &self.input
+    }
+
+    fn load_current(&self, k: usize, v: f64, case: Case) -> f64 {
+        let l = &self.input.loads[k];
+        let (typ, peak) = match (l.typ_a, l.peak_a) {
+            (None, None) => {
+                // Powers: the current at this voltage (nothing at a dead rail).
+                let typ = l.typ_w.unwrap_or(0.0);
+                let peak = l.peak_w.unwrap_or(typ);
+                if v <= 0.0 {
+                    return 0.0;
+                }
+                (typ / v, peak / v)
+            }
+            (typ, peak) => {
+                let typ = typ.unwrap_or(0.0);
+                (typ, peak.unwrap_or(typ))
+            }
+        };
+        match case {
+            Case::Typ => typ,
+            Case::Peak => peak,
+            Case::Avg => {
+                let a = l.activity_pct.unwrap_or(100.0) / 100.0;
+                a * typ + (1.0 - a) * l.sleep_a.unwrap_or(0.0)
+            }
+        }
+    }
+
+    fn solve(&self, vs: f64, case: Case) -> Solved {
+        let n = self.input.rails.len();
+        let mut s = Solved {
+            v_out: alloc::vec![0.0; n],
+            v_in: alloc::vec![0.0; n],
+            i_out: alloc::vec![0.0; n],
+            i_in: alloc::vec![0.0; n],
+            load_v: alloc::vec![0.0; self.input.loads.len()],
+            load_i: alloc::vec![0.0; self.input.loads.len()],
+            source_i: 0.0,
+        };
+        for _ in 0..MAX_ROUNDS {
+            // Voltages, top down, with the currents of the last round.
+            for &i in &self.order {
+                let r = &self.input.rails[i];
+                let vin = self.parent[i].map_or(vs, |p| s.v_out[p]);
+                s.v_in[i] = vin;
+                s.v_out[i] = match r.kind {
+                    RailKind::Linear => r
+                        .vout
+                        .unwrap_or(0.0)
+                        .min(vin - r.dropout_v.unwrap_or(0.0))
+                        .max(0.0),
+                    RailKind::Switching => {
+                        if vin > 0.0 {
+                            r.vout.unwrap_or(0.0)
+                        } else {
+                            0.0
+                        }
+                    }
+                    RailKind::Switch => (vin - s.i_out[i] * r.r_on.unwrap_or(0.0)).max(0.0),
+                };
+            }
+            // Currents, bottom up.
+            let mut i_out = alloc::vec![0.0; n];
+            let mut source_i = 0.0;
+            for k in 0..self.input.loads.len() {
+                let v = self.load_rail[k].map_or(vs, |r| s.v_out[r]);
+                let i = self.load_current(k, v, case);
+                s.load_v[k] = v;
+                s.load_i[k] = i;
+                match self.load_rail[k] {
+                    Some(r) => i_out[r] += i,
+                    None => source_i += i,
+                }
+            }
+            for &i in self.order.iter().rev() {
+                let r = &self.input.rails[i];
+                let iq = r.iq.unwrap_or(0.0);
+                let vin = s.v_in[i];
+                let iin = match r.kind {
+                    RailKind::Linear => i_out[i] + iq,
+                    RailKind::Switching => {
+                        if vin > 0.0 {
+                            s.v_out[i] * i_out[i]
+                                / (vin * r.efficiency_pct.unwrap_or(100.0) / 100.0)
+                                + iq
+                        } else {
+                            0.0
+                        }
+                    }
+                    RailKind::Switch => i_out[i],
+                };
+                s.i_in[i] = iin;
+                match self.parent[i] {
+                    Some(p) => i_out[p] += iin,
+                    None => source_i += iin,
+                }
+            }
+            let settled = i_out
+                .iter()
+                .zip(&s.i_out)
+                .all(|(a, b)| libm::fabs(a - b) <= 1e-12 * libm::fabs(*a).max(1e-9))
+                && libm::fabs(source_i - s.source_i) <= 1e-12 * libm::fabs(source_i).max(1e-9);
+            s.i_out = i_out;
+            s.source_i = source_i;
+            if settled {
+                break;
+            }
+        }
+        s
+    }
+
+    fn corner(&self, vs: f64) -> (TreeCorner, Solved) {
+        let typ = self.solve(vs, Case::Typ);
+        let peak = self.solve(vs, Case::Peak);
+        let avg = self.solve(vs, Case::Avg);
+        let cases = |f: &dyn Fn(&Solved) -> f64| Cases {
+            typ: f(&typ),
+            peak: f(&peak),
+            avg: f(&avg),
+        };
+        let rails = (0..self.input.rails.len())
+            .map(|i| RailResult {
+                name: self.input.rails[i].name.clone(),
+                vin: peak.v_in[i],
+                vout: peak.v_out[i],
+                iout_a: cases(&|s| s.i_out[i]),
+                iin_a: cases(&|s| s.i_in[i]),
+                loss_w: cases(&|s| s.v_in[i] * s.i_in[i] - s.v_out[i] * s.i_out[i]),
+            })
+            .collect::<Vec<_>>();
+        let loads = (0..self.input.loads.len())
+            .map(|k| LoadResult {
+                name: self.input.loads[k].name.clone(),
+                v: peak.load_v[k],
+                i_a: cases(&|s| s.load_i[k]),
+                p_w: cases(&|s| s.load_v[k] * s.load_i[k]),
+            })
+            .collect::<Vec<_>>();
+        let loads_w = cases(&|s| (0..s.load_i.len()).map(|k| s.load_v[k] * s.load_i[k]).sum());
+        let losses_w = cases(&|s| {
+            (0..s.i_in.len())
+                .map(|i| s.v_in[i] * s.i_in[i] - s.v_out[i] * s.i_out[i])
+                .sum()
+        });
+        let source_w = cases(&|s| vs * s.source_i);
+        let corner = TreeCorner {
+            vin: vs,
+            source_a: cases(&|s| s.source_i),
+            source_w,
+            loads_w,
+            losses_w,
+            efficiency_pct: if source_w.avg > 0.0 {
+                100.0 * loads_w.avg / source_w.avg
+            } else {
+                100.0
+            },
+            rails,
+            loads,
+        };
+        (corner, peak)
+    }
+
+    /// Compute the report; cannot fail.
+    pub fn report(&self) -> TreeReport {
+        use QuantityKind::{Current, Temperature, TemperatureDifference, Voltage};
+        let s = &self.input.source;
+        let (low, low_peak) = self.corner(s.v_min);
+        let (nom, _) = self.corner(s.v_nom);
+        let (high, high_peak) = self.corner(s.v_max);
+        let mut checks = Vec::new();
+        let mut owners = Vec::new();
+        for &i in &self.order {
+            let r = &self.input.rails[i];
+            if r.kind == RailKind::Linear {
+                let headroom =
+                    low_peak.v_in[i] - r.vout.unwrap_or(0.0) - r.dropout_v.unwrap_or(0.0);
+                checks.push(Check {
+                    id: CheckId::Headroom,
+                    title: format!("{} headroom", r.name),
+                    status: if headroom >= 0.0 {
+                        Status::Pass
+                    } else {
+                        Status::Fail
+                    },
+                    text: format!(
+                        "At the source's lowest voltage its input is {}, {} {} over V_out plus \
+                         dropout",
+                        show(low_peak.v_in[i], Voltage),
+                        show(libm::fabs(headroom), Voltage),
+                        if headroom >= 0.0 { "above" } else { "short of" }
+                    ),
+                });
+                owners.push(i);
+            }
+            if let Some(theta) = r.theta_ja {
+                let p =
+                    high_peak.v_in[i] * high_peak.i_in[i] - high_peak.v_out[i] * high_peak.i_out[i];
+                let tj = self.input.ta_max + theta * p;
+                let limit = r.tj_max.unwrap_or(125.0);
+                checks.push(Check {
+                    id: CheckId::Thermal,
+                    title: format!("{} junction", r.name),
+                    status: if tj <= limit {
+                        Status::Pass
+                    } else {
+                        Status::Fail
+                    },
+                    text: format!(
+                        "{} at peak load, the highest source voltage and {} ambient: T_j {} \
+                         against {} ({} {})",
+                        show(p, QuantityKind::Power),
+                        show(self.input.ta_max, Temperature),
+                        show(tj, Temperature),
+                        show(limit, Temperature),
+                        show(libm::fabs(limit - tj), TemperatureDifference),
+                        if tj <= limit { "to spare" } else { "over" }
+                    ),
+                });
+                owners.push(i);
+            }
+            if let Some(rated) = r.rated_a {
+                let peak = low_peak.i_out[i].max(high_peak.i_out[i]);
+                checks.push(Check {
+                    id: CheckId::Rating,
+                    title: format!("{} current", r.name),
+                    status: if peak <= rated {
+                        Status::Pass
+                    } else {
+                        Status::Fail
+                    },
+                    text: format!(
+                        "Peak output {} against its rating {}",
+                        show(peak, Current),
+                        show(rated, Current)
+                    ),
+                });
+                owners.push(i);
+            }
+        }
+        if let Some(limit) = s.current_limit_a {
+            let peak = low.source_a.peak.max(high.source_a.peak);
+            checks.push(Check {
+                id: CheckId::SourceLimit,
+                title: format!("{} current", s.name),
+                status: if peak <= limit {
+                    Status::Pass
+                } else {
+                    Status::Fail
+                },
+                text: format!(
+                    "Peak draw {} against the limit {}",
+                    show(peak, Current),
+                    show(limit, Current)
+                ),
+            });
+            owners.push(usize::MAX);
+        }
+        let verdict = overall(&checks);
+        let first_failure = checks
+            .iter()
+            .zip(&owners)
+            .find(|(c, _)| c.status == verdict && verdict != Status::Pass)
+            .map(|(_, &o)| {
+                if o == usize::MAX {
+                    s.name.clone()
+                } else {
+                    self.input.rails[o].name.clone()
+                }
+            });
+        let runtime_h = match (s.capacity_mah, s.capacity_wh) {
+            (Some(mah), _) if nom.source_a.avg > 0.0 => Some(mah / 1000.0 / nom.source_a.avg),
+            (_, Some(wh)) if nom.source_w.avg > 0.0 => Some(wh / nom.source_w.avg),
+            _ => None,
+        };
+        let summary = match verdict {
+            Status::Pass => format!(
+                "Every rail passes; the source gives {} on average at {}",
+                show(nom.source_w.avg, QuantityKind::Power),
+                show(s.v_nom, Voltage)
+            ),
+            _ => format!(
+                "Fails on {}; first to fail: {}",
+                titles_with(&checks, Status::Fail),
+                first_failure.clone().unwrap_or_default()
+            ),
+        };
+        TreeReport {
+            verdict,
+            summary,
+            checks,
+            first_failure,
+            corners: [low, nom, high],
+            runtime_h,
+        }
+    }
+}
+
+mod out {
+    use super::*;
+    use crate::output::{out_object, out_words, Out, ToOut};
+
+    out_words!(CheckId {
+        Headroom => "headroom",
+        Thermal => "thermal",
+        Rating => "rating",
+        SourceLimit => "sourceLimit",
+    });
+
+    impl ToOut for Cases {
+        fn to_out(&self) -> Out {
+            out_object! { "typ": self.typ, "peak": self.peak, "avg": self.avg }
+        }
+    }
+
+    impl ToOut for RailResult {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "name": self.name,
+                "vin": self.vin,
+                "vout": self.vout,
+                "ioutA": self.iout_a,
+                "iinA": self.iin_a,
+                "lossW": self.loss_w,
+            }
+        }
+    }
+
+    impl ToOut for LoadResult {
+        fn to_out(&self) -> Out {
+            out_object! { "name": self.name, "v": self.v, "iA": self.i_a, "pW": self.p_w }
+        }
+    }
+
+    impl ToOut for TreeCorner {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "vin": self.vin,
+                "sourceA": self.source_a,
+                "sourceW": self.source_w,
+                "loadsW": self.loads_w,
+                "lossesW": self.losses_w,
+                "efficiencyPct": self.efficiency_pct,
+                "rails": self.rails,
+                "loads": self.loads,
+            }
+        }
+    }
+
+    impl ToOut for TreeReport {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "verdict": self.verdict,
+                "summary": self.summary,
+                "checks": self.checks,
+                "firstFailure": self.first_failure,
+                "corners": self.corners,
+                "runtimeH": self.runtime_h,
+            }
+        }
+    }
+}
