@@ -51,6 +51,8 @@ use alloc::vec::Vec;
 /// document cannot make the page spin.
 pub const MAX_RAILS: usize = 500;
 pub const MAX_LOADS: usize = 2000;
+/// The version of the tree document [`TreeInput::read`] reads.
+pub const SCHEMA_VERSION: u32 = 1;
 /// Rounds of the voltage–current alternation.
 const MAX_ROUNDS: usize = 100;
 
@@ -133,6 +135,17 @@ impl TreeInput {
     /// dropoutV, rOn, thetaJa, tjMax, ratedA}], `loads` [{name, rail, typA, peakA, typW, peakW,
     /// activityPct, sleepA}], `taMax`.
     pub fn read(f: &mut dyn FieldSource) -> Result<TreeInput, ReadError> {
+        // The document's schema version: 1 is the only one so far (and what a document without
+        // the field is taken to be); a later version must migrate older documents here.
+        match crate::fields::count(f, "version")? {
+            None | Some(SCHEMA_VERSION) => {}
+            Some(_) => {
+                return Err(f.error(
+                    "version",
+                    String::from("this document is of a schema version this railnote does not know (it reads version 1)"),
+                ))
+            }
+        }
         let mut sources = Vec::new();
         f.each_object("sources", &mut |s| {
             let name = name_of(s, "name")?;

@@ -29,6 +29,7 @@ use railnote_core::linear::LinearInput;
 use railnote_core::output::{Out, ToOut};
 use railnote_core::switching::SwitchingInput;
 use railnote_core::thermal::ThermalInput;
+use railnote_core::tree::TreeInput;
 use railnote_core::units::{self, QuantityKind};
 use railnote_core::InputError;
 use wasm_bindgen::prelude::*;
@@ -211,6 +212,15 @@ pub fn check_switching(input: JsValue) -> Result<JsValue, JsValue> {
 pub fn compare_rails(input: JsValue) -> Result<JsValue, JsValue> {
     let input = read_input(input, CompareInput::read)?;
     let report = railnote_core::compare::compare_rails(&input).map_err(InputErrorJs)?;
+    write_output(&report)
+}
+
+/// The rail tree: a versioned tree document (version, taMax, sources, rails, loads) in, every
+/// rail and load at the source's three voltages, checks, first failure and runtime out.
+#[wasm_bindgen(js_name = checkTree)]
+pub fn check_tree(input: JsValue) -> Result<JsValue, JsValue> {
+    let input = read_input(input, TreeInput::read)?;
+    let report = railnote_core::tree::check_tree(&input).map_err(InputErrorJs)?;
     write_output(&report)
 }
 
