@@ -16,6 +16,8 @@
 //! 6. Full switching-estimate reports (3 V_in corners × 50 sweep loads each), natively
 //!    (core/examples/bench_switching.rs) and through the page's own WASM in headless Chromium
 //!    (tests/bench/wasm_switching.mjs), side by side with their ratio.
+//! 7. A 200-rail, 1000-load rail tree, natively (core/examples/bench_tree.rs) and in headless
+//!    Chromium (tests/bench/wasm_tree.mjs), with their ratio.
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
@@ -33,6 +35,8 @@ const THERMAL_CHECKS: &str = "200";
 const DIVIDER_RUNS: &str = "20";
 /// Switching reports (150 sweep points each) per run: about a tenth of a second natively.
 const SWITCHING_CHECKS: &str = "2000";
+/// Rail-tree checks per run (200 rails, 1000 loads each): about 50 ms natively.
+const TREE_CHECKS: &str = "20";
 
 pub fn bench() -> Result {
     tools::ensure_bench_tools()?;
@@ -43,13 +47,14 @@ pub fn bench() -> Result {
     thermal_series()?;
     divider()?;
     switching_sweep()?;
+    tree()?;
     println!();
     println!("xtask bench: done (figures only; nothing here fails on time)");
     Ok(())
 }
 
 fn sizes() -> Result {
-    header("bench 1/6: WASM size");
+    header("bench 1/7: WASM size");
     let record = bindgen_size_record();
     let raw: u64 = fs::read_to_string(&record)
         .ok()
@@ -94,7 +99,7 @@ fn breakdown() -> Result {
 }
 
 fn browser() -> Result {
-    header("bench 2/6: linear page in headless Chromium");
+    header("bench 2/7: linear page in headless Chromium");
     let page = linear_page(&site_dir()).ok_or("site/ has no linear page to measure")?;
     let listener = server::bind(None).map_err(|e| format!("cannot listen: {e}"))?;
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
@@ -106,7 +111,7 @@ fn browser() -> Result {
 }
 
 fn native_vs_wasm() -> Result {
-    header("bench 3/6: the same batch of linear checks, native and WASM (Node)");
+    header("bench 3/7: the same batch of linear checks, native and WASM (Node)");
     let native = native_example("bench_linear", LINEAR_CHECKS)?;
     let wasm = output(
         Command::new("node")
@@ -132,7 +137,7 @@ fn native_vs_wasm() -> Result {
 }
 
 fn thermal_series() -> Result {
-    header("bench 4/6: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
+    header("bench 4/7: 10 000-step T_j(t) series, eight stages: native and WASM (Chromium)");
     let native = native_example("bench_thermal", THERMAL_CHECKS)?;
     let wasm = in_chromium("wasm_thermal.mjs", THERMAL_CHECKS)?;
     let (native, wasm) = (last_line(&native), last_line(&wasm));
@@ -156,7 +161,7 @@ fn thermal_series() -> Result {
 }
 
 fn divider() -> Result {
-    header("bench 5/6: divider picker, E192 search and 100 000-sample Monte Carlo: native and WASM (Chromium)");
+    header("bench 5/7: divider picker, E192 search and 100 000-sample Monte Carlo: native and WASM (Chromium)");
     let native = native_example("bench_divider", DIVIDER_RUNS)?;
     let wasm = in_chromium("wasm_divider.mjs", DIVIDER_RUNS)?;
     for job in ["search", "montecarlo"] {
@@ -187,7 +192,7 @@ fn divider() -> Result {
 }
 
 fn switching_sweep() -> Result {
-    header("bench 6/6: switching estimate, 3 corners × 50 loads: native and WASM (Chromium)");
+    header("bench 6/7: switching estimate, 3 corners × 50 loads: native and WASM (Chromium)");
     let native = native_example("bench_switching", SWITCHING_CHECKS)?;
     let wasm = in_chromium("wasm_switching.mjs", SWITCHING_CHECKS)?;
     let (native, wasm) = (last_line(&native), last_line(&wasm));
@@ -204,6 +209,23 @@ fn switching_sweep() -> Result {
         native_ns / 1e3,
         wasm_ns / 1e3,
         wasm_ns / native_ns,
+    );
+    compare_checksums(native, wasm)
+}
+
+fn tree() -> Result {
+    header("bench 7/7: rail tree, 200 rails and 1000 loads: native and WASM (Chromium)");
+    let native = native_example("bench_tree", TREE_CHECKS)?;
+    let wasm = in_chromium("wasm_tree.mjs", TREE_CHECKS)?;
+    let (native, wasm) = (last_line(&native), last_line(&wasm));
+    println!("native:        {native}");
+    println!("wasm-chromium: {wasm}");
+    let (native_ns, wasm_ns) = (field_of(native, "nsPerRun")?, field_of(wasm, "nsPerRun")?);
+    println!(
+        "per tree check: native {:.3} ms, WASM in Chromium {:.3} ms: WASM takes {:.2}× the native time",
+        native_ns / 1e6,
+        wasm_ns / 1e6,
+        wasm_ns / native_ns
     );
     compare_checksums(native, wasm)
 }
