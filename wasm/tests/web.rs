@@ -318,3 +318,53 @@ fn compare_rails_crosses_with_an_impossible_linear_side() {
     set(&input, "vout", 3.3.into());
     assert_eq!(thrown(railnote_wasm::compare_rails(input)).0, "ldoThetaJa");
 }
+
+/// The logger board as a tree document (invented scenario; schema version 1).
+fn tree_demo() -> JsValue {
+    JSON::parse(
+        r#"{"version":1,"taMax":60,
+            "sources":[{"name":"Battery","vMin":10.8,"vNom":12,"vMax":14.4,"capacityMah":7000}],
+            "rails":[{"name":"5V0 buck","parent":"Battery","kind":"switching","vout":5,"efficiencyPct":88},
+                     {"name":"3V3 LDO","parent":"5V0 buck","kind":"linear","vout":3.3,"dropoutV":0.3,"iq":5e-5,"thetaJa":100}],
+            "loads":[{"name":"MCU and radio","rail":"3V3 LDO","typA":0.03,"peakA":0.25}]}"#,
+    )
+    .expect("the tree demo is valid JSON")
+}
+
+#[wasm_bindgen_test]
+fn check_tree_crosses_with_its_lists() {
+    let report = railnote_wasm::check_tree(tree_demo()).expect("the demo computes");
+    assert_eq!(get(&report, "verdict").as_string().as_deref(), Some("pass"));
+    assert!(get(&report, "firstFailure").is_null());
+    let corners = get(&report, "corners").dyn_into::<Array>().unwrap();
+    assert_eq!(corners.length(), 3);
+    let rails = get(&corners.get(1), "rails").dyn_into::<Array>().unwrap();
+    assert_eq!(
+        get(&rails.get(1), "name").as_string().as_deref(),
+        Some("3V3 LDO")
+    );
+    // 3V3: 30 mA out, 30.05 mA in (I_q 50 µA added; Kirchhoff).
+    let iin = get(&rails.get(1), "iinA.typ").as_f64().unwrap();
+    assert!((iin - 0.03005).abs() < 1e-15, "{iin}");
+    assert!(get(&report, "runtimeH").as_f64().is_some());
+}
+
+#[wasm_bindgen_test]
+fn tree_errors_name_the_list_and_the_rail() {
+    let input = tree_demo();
+    let rail = get(&input, "rails").dyn_into::<Array>().unwrap().get(1);
+    set(&rail, "parent", "Nowhere".into());
+    let (field, message) = thrown(railnote_wasm::check_tree(input));
+    assert_eq!(field, "rails");
+    assert!(
+        message.contains("3V3 LDO") && message.contains("Nowhere"),
+        "{message}"
+    );
+    let input = tree_demo();
+    set(&input, "version", 2.into());
+    assert_eq!(thrown(railnote_wasm::check_tree(input)).0, "version");
+    let input = tree_demo();
+    let rail = get(&input, "rails").dyn_into::<Array>().unwrap().get(0);
+    set(&rail, "kind", "magic".into());
+    assert_eq!(thrown(railnote_wasm::check_tree(input)).0, "rails[0].kind");
+}
