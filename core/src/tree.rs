@@ -355,6 +355,13 @@ fn show(value: f64, kind: QuantityKind) -> String {
     format_quantity(value, kind, 3)
 }
 
+/// A value check's error, said of the rail.
+#[inline(never)]
+fn on_rail(name: &str, e: InputError) -> InputError {
+    rail_error(name, e.message)
+}
+
+#[inline(never)]
 fn rail_error(name: &str, message: String) -> InputError {
     let name: String = name.chars().take(40).collect();
     InputError::new("rails", format!("Rail \"{name}\": {message}"))
@@ -492,8 +499,7 @@ impl TreeInput {
             let from = parent[i].map_or(v_max, |p| highest[p]);
             let positive = |v: Option<f64>, what: &str, kind| -> Result<f64, InputError> {
                 let v = v.ok_or_else(|| rail_error(&r.name, format!("{what} is needed")))?;
-                check::above("rails", what, v, 0.0, kind)
-                    .map_err(|e| rail_error(&r.name, e.message))
+                check::above("rails", what, v, 0.0, kind).map_err(|e| on_rail(&r.name, e))
             };
             match r.kind {
                 RailKind::Linear => {
@@ -509,7 +515,7 @@ impl TreeInput {
                         ));
                     }
                     check::at_least("rails", "V_do", r.dropout_v.unwrap_or(0.0), 0.0, Voltage)
-                        .map_err(|e| rail_error(&r.name, e.message))?;
+                        .map_err(|e| on_rail(&r.name, e))?;
                     highest[i] = vout;
                 }
                 RailKind::Switching => {
@@ -521,22 +527,22 @@ impl TreeInput {
                 }
                 RailKind::Switch => {
                     check::at_least("rails", "R_on", r.r_on.unwrap_or(0.0), 0.0, Resistance)
-                        .map_err(|e| rail_error(&r.name, e.message))?;
+                        .map_err(|e| on_rail(&r.name, e))?;
                     highest[i] = from;
                 }
             }
             check::at_least("rails", "I_q", r.iq.unwrap_or(0.0), 0.0, Current)
-                .map_err(|e| rail_error(&r.name, e.message))?;
+                .map_err(|e| on_rail(&r.name, e))?;
             if let Some(t) = r.theta_ja {
                 check::above("rails", "θJA", t, 0.0, ThermalResistance)
-                    .map_err(|e| rail_error(&r.name, e.message))?;
+                    .map_err(|e| on_rail(&r.name, e))?;
                 let tj = r.tj_max.unwrap_or(125.0);
                 check::within("rails", "T_j,max", tj, -100.0, 250.0, Temperature)
-                    .map_err(|e| rail_error(&r.name, e.message))?;
+                    .map_err(|e| on_rail(&r.name, e))?;
             }
             if let Some(a) = r.rated_a {
                 check::above("rails", "The rated current", a, 0.0, Current)
-                    .map_err(|e| rail_error(&r.name, e.message))?;
+                    .map_err(|e| on_rail(&r.name, e))?;
             }
         }
         for l in &self.loads {
