@@ -271,3 +271,61 @@ fn switching_and_comparison_read_every_field_by_its_name() {
     .unwrap_err();
     assert_eq!(e.field, "ldoRatedA");
 }
+
+#[test]
+fn tree_reads_its_lists_and_refuses_a_newer_version() {
+    use railnote_core::tree::{RailKind, TreeInput};
+    use V::*;
+    let entries = |version: f64| {
+        vec![
+            ("version", N(version)),
+            ("taMax", N(60.0)),
+            (
+                "sources",
+                L(vec![vec![
+                    ("name", T("Battery")),
+                    ("vMin", N(10.8)),
+                    ("vNom", N(12.0)),
+                    ("vMax", N(14.4)),
+                    ("capacityMah", N(7000.0)),
+                ]]),
+            ),
+            (
+                "rails",
+                L(vec![vec![
+                    ("name", T("3V3")),
+                    ("parent", T("Battery")),
+                    ("kind", T("linear")),
+                    ("vout", N(3.3)),
+                ]]),
+            ),
+            (
+                "loads",
+                L(vec![vec![
+                    ("name", T("MCU")),
+                    ("rail", T("3V3")),
+                    ("typA", N(0.03)),
+                    ("peakA", N(0.25)),
+                ]]),
+            ),
+        ]
+    };
+    let read = |entries| {
+        TreeInput::read(&mut Source {
+            entries,
+            path: String::new(),
+        })
+    };
+    let x = read(entries(1.0)).expect("reads");
+    assert_eq!(x.source.name, "Battery");
+    assert_eq!(x.source.capacity_mah, Some(7000.0));
+    assert_eq!(x.rails[0].kind, RailKind::Linear);
+    assert_eq!(
+        (x.loads[0].typ_a, x.loads[0].peak_a),
+        (Some(0.03), Some(0.25))
+    );
+    assert_eq!(read(entries(2.0)).unwrap_err().field, "version");
+    let mut no_name = entries(1.0);
+    no_name[3].1 = L(vec![vec![("parent", T("Battery")), ("kind", T("switch"))]]);
+    assert_eq!(read(no_name).unwrap_err().field, "rails[0].name");
+}
