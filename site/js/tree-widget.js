@@ -371,7 +371,6 @@ export class TreeElement extends HTMLElement {
 
   /** The cell an error belongs to: its path, or for a whole-list error the row its sentence names. */
   cellFor(field, message) {
-    if (this.cells.has(field)) return this.cells.get(field);
     const subject = subjectOf(message);
     if (subject && (field === 'rails' || field === 'loads')) {
       const [list, name] = subject;
@@ -382,6 +381,7 @@ export class TreeElement extends HTMLElement {
         return this.cells.get(`${list}[${i}].${key}`);
       }
     }
+    if (this.cells.has(field)) return this.cells.get(field);
     const top = /^(\w+)/.exec(field || '');
     return top && this.cells.has(top[1]) ? this.cells.get(top[1]) : null;
   }
