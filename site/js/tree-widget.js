@@ -559,7 +559,8 @@ export class TreeElement extends HTMLElement {
     doc.rails.forEach((rail) => children.set(rail.name, []));
     doc.rails.forEach((rail, i) => children.get(rail.parent).push({ type: 'rail', i, name: rail.name }));
     doc.loads.forEach((load, i) => children.get(load.rail).push({ type: 'load', i, name: load.name }));
-    const W = 196; const H = 58; const COL = 268; const ROW = 78; const PAD = 12;
+    // Node width, height, column pitch (room for two label lines of an edge), row pitch, margin.
+    const W = 184; const H = 58; const COL = 306; const ROW = 78; const PAD = 12;
     const nodes = [];
     let row = 0;
     let maxDepth = 0;
@@ -589,7 +590,10 @@ export class TreeElement extends HTMLElement {
         const x1 = n.x + W; const y1 = n.y + H / 2; const x2 = child.x; const y2 = child.y + H / 2; const xm = x1 + 18;
         g.append(svg('path', { class: 'rn-tree-edge', d: `M${x1} ${y1} H${xm} V${y2} H${x2}` }));
         const cur = child.type === 'rail' ? c.rails[child.i].iinA : c.loads[child.i].iA;
-        g.append(text(xm + 6, y2 - 6, 'rn-tree-edge-label', `${this.fmt(cur.peak, 'current')} peak · ${this.fmt(cur.avg, 'current')} avg`));
+        // Peak above the line, average below it, in the gap before the child.
+        g.append(svg('text', { class: 'rn-tree-edge-label', 'data-edge': `${child.type}:${child.i}` },
+          svg('tspan', { x: xm + 6, y: y2 - 5 }, `${this.fmt(cur.peak, 'current')} peak`),
+          svg('tspan', { x: xm + 6, y: y2 + 14 }, `${this.fmt(cur.avg, 'current')} avg`)));
       }
       const cls = n.type === 'rail' ? `rn-tree-node rn-tree-rail rn-status-${worst((this.railVerdicts(r).get(n.name) || []).map((x) => x.status)) || 'none'}` : `rn-tree-node rn-tree-${n.type}`;
       const lines = [];
@@ -601,11 +605,11 @@ export class TreeElement extends HTMLElement {
         const res = c.loads[n.i];
         lines.push(`${this.fmt(res.pW.avg, 'power')} average`, `${this.fmt(res.iA.typ, 'current')} typical`);
       }
-      const short = (s) => (s.length > 30 ? `${s.slice(0, 29)}…` : s);
+      const short = (s, n = 28) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
       g.append(svg('g', { class: cls, 'data-node': n.type, 'data-name': n.name },
         svg('title', {}, n.name),
         svg('rect', { x: n.x, y: n.y, width: W, height: H, rx: n.type === 'load' ? 14 : 3 }),
-        text(n.x + 8, n.y + 17, 'rn-tree-name', short(n.name)),
+        text(n.x + 8, n.y + 17, 'rn-tree-name', short(n.name, 24)),
         text(n.x + 8, n.y + 34, 'rn-tree-line', short(lines[0])),
         text(n.x + 8, n.y + 50, 'rn-tree-line', short(lines[1]))));
     }

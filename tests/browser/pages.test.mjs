@@ -10,9 +10,10 @@ import { launch, open, url, assertSameOrigin, settled, field, OUT_DIR } from './
 
 const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'thermal.html', 'embed.html?calc=thermal',
   'divider.html', 'embed.html?calc=divider',
-  'switching.html', 'embed.html?calc=switching', 'compare.html', 'embed.html?calc=compare', 'reference.html'];
+  'switching.html', 'embed.html?calc=switching', 'compare.html', 'embed.html?calc=compare',
+  'tree.html', 'embed.html?calc=tree', 'reference.html'];
 /** The calculator element a page shows, if any. */
-const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear'
+const TAG_OF = (p) => (/tree/.test(p) ? 'railnote-tree' : /thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear'
   : /divider/.test(p) ? 'railnote-divider'
   : /switching/.test(p) ? 'railnote-switching' : /compare/.test(p) ? 'railnote-compare' : null);
 /** A field of each calculator the CSP test types into, with a good value for it. */

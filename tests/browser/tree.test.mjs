@@ -131,9 +131,9 @@ async function shownAndExpected(page, doc) {
       out.push([`corner ${k} efficiency`, tot('efficiencyPct'), f(c.efficiencyPct, 'percent')]);
       out.push([`corner ${k} runtime`, tot('runtimeH'), `${f(report.runtimeH, 'count')} h (${f(report.runtimeH / 24, 'count')} days)`]);
       // Each edge of the diagram: the rail's input current or the load's current, peak and average.
-      const edges = [...el.querySelectorAll('.rn-tree-edge-label')].map((t) => t.textContent).sort();
-      const want = [...c.rails.map((r) => r.iinA), ...c.loads.map((l) => l.iA)]
-        .map((x) => `${f(x.peak, 'current')} peak · ${f(x.avg, 'current')} avg`).sort();
+      const edges = [...el.querySelectorAll('.rn-tree-edge-label')].map((t) => `${t.dataset.edge}: ${[...t.children].map((s) => s.textContent).join(' / ')}`).sort();
+      const want = [...c.rails.map((r, i) => [`rail:${i}`, r.iinA]), ...c.loads.map((l, i) => [`load:${i}`, l.iA])]
+        .map(([id, x]) => `${id}: ${f(x.peak, 'current')} peak / ${f(x.avg, 'current')} avg`).sort();
       out.push([`corner ${k} diagram edges`, edges.join(' | '), want.join(' | ')]);
     }
     const sel = el.querySelector('#rn-tree-corner');
