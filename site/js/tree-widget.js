@@ -216,7 +216,7 @@ export class TreeElement extends HTMLElement {
   buildTables() {
     this.cells = new Map(); // path → { input, message, root }
     const s = this.state;
-    const ambient = this.cellNode('taMax', s.taMax, { head: 'Hottest ambient', unit: '°C' }, 'Hottest ambient');
+    const ambient = this.cellNode('taMax', s.taMax, { head: 'Hottest ambient', unit: '°C' }, 'Hottest ambient (°C)');
     const sourceTable = this.table('source', 'Source (exactly one)', SOURCE_COLUMNS, [s.source], 'sources', 'Source');
     const railTable = this.table('rails', 'Rails', RAIL_COLUMNS, s.rails, 'rails', 'Rail');
     const loadTable = this.table('loads', 'Loads', LOAD_COLUMNS, s.loads, 'loads', 'Load');
@@ -227,7 +227,7 @@ export class TreeElement extends HTMLElement {
     };
     this.tables.replaceChildren(
       h('fieldset', { class: 'rn-group' }, h('legend', {}, 'Source and ambient'), sourceTable, listMsg('sources'),
-        h('div', { class: 'rn-tree-ambient' }, ambient)),
+        h('div', { class: 'rn-tree-ambient' }, h('label', { for: 'rn-tree-taMax', class: 'rn-label' }, 'Hottest ambient, for every rail ', h('span', { class: 'rn-unit' }, '(°C)')), ambient)),
       h('fieldset', { class: 'rn-group' }, h('legend', {}, 'Rails'),
         h('p', { class: 'rn-group-note' }, 'Each rail is fed from the source or another rail, by name. Cells a kind does not use are marked “not used” and are not sent.'),
         railTable, listMsg('rails'),
@@ -276,7 +276,7 @@ export class TreeElement extends HTMLElement {
     }
     input.addEventListener(column.key === 'kind' ? 'change' : 'input', () => this.onEdit(path, input.value));
     const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
-    const root = h('span', { class: 'rn-field rn-cell', 'data-path': path }, input, message);
+    const root = h('span', { class: `rn-field rn-cell${column.unit ? '' : ' rn-text-cell'}`, 'data-path': path }, input, message);
     this.cells.set(path, { input, message, root });
     return root;
   }
