@@ -74,6 +74,29 @@ export function demoDoc() {
   };
 }
 
+/**
+ * The demo board as the page shows it: the same numbers as demoDoc, written the way a person
+ * types them (units, prefixes). A test checks that it parses to demoDoc exactly.
+ */
+export function demoState() {
+  const blank = (keys) => Object.fromEntries(Object.keys(keys).map((k) => [k, '']));
+  const rail = (v) => ({ ...blank(RAIL_KEYS), ...v });
+  const load = (v) => ({ ...blank(LOAD_KEYS), ...v });
+  return {
+    taMax: '60 °C',
+    source: { ...blank(SOURCE_KEYS), name: 'Battery', vMin: '10.8 V', vNom: '12 V', vMax: '14.4 V', capacityMah: '7000' },
+    rails: [
+      rail({ name: '5V0 buck', parent: 'Battery', kind: 'switching', vout: '5 V', efficiencyPct: '88 %', ratedA: '800 mA' }),
+      rail({ name: '3V3 LDO', parent: '5V0 buck', kind: 'linear', vout: '3.3 V', dropoutV: '300 mV', iq: '50 µA', thetaJa: '100 K/W', tjMax: '125 °C', ratedA: '300 mA' }),
+      rail({ name: '1V8 LDO', parent: '3V3 LDO', kind: 'linear', vout: '1.8 V', dropoutV: '300 mV', iq: '50 µA' }),
+    ],
+    loads: [
+      load({ name: 'Microcontroller and radio', rail: '3V3 LDO', typA: '30 mA', peakA: '250 mA', activityPct: '20 %', sleepA: '20 µA' }),
+      load({ name: 'Sensor front end', rail: '1V8 LDO', typA: '40 mA', peakA: '40 mA', activityPct: '5 %' }),
+    ],
+  };
+}
+
 const isObject = (v) => v !== null && typeof v === 'object' && !Array.isArray(v);
 
 /**

@@ -18,7 +18,7 @@
 import { ready } from './engine.js';
 import { h, copyText, reportEmbedHeight, createAnnouncer, formatWith, stampNow, VERDICT_WORDS } from './common.js';
 import {
-  demoDoc, stateFromDoc, docFromState, sanitizeState, importJson, exportJson, shareUrl, decodeDoc,
+  demoState, stateFromDoc, docFromState, sanitizeState, importJson, exportJson, shareUrl, decodeDoc,
   codeFromHash, emptyRow, RAIL_KINDS, MAX_RAILS, MAX_LOADS,
 } from './tree-doc.js';
 
@@ -168,7 +168,7 @@ export class TreeElement extends HTMLElement {
       this.setState(draft);
       if (!this.toolStatus.textContent) this.toolStatus.textContent = 'Your draft from this browser is back. “Discard draft” starts again from the demo board.';
     } else {
-      this.setState(stateFromDoc(demoDoc()));
+      this.setState(demoState());
     }
   }
 
@@ -194,12 +194,12 @@ export class TreeElement extends HTMLElement {
 
   discardDraft() {
     try { window.localStorage.removeItem(DRAFT_KEY); } catch { /* nothing kept */ }
-    this.setState(stateFromDoc(demoDoc()), false);
+    this.setState(demoState(), false);
     this.toolStatus.textContent = 'Draft discarded; this is the demo board.';
   }
 
   resetDemo() {
-    this.setState(stateFromDoc(demoDoc()));
+    this.setState(demoState());
     this.toolStatus.textContent = 'Reset to the demo board.';
   }
 
@@ -276,7 +276,7 @@ export class TreeElement extends HTMLElement {
     }
     input.addEventListener(column.key === 'kind' ? 'change' : 'input', () => this.onEdit(path, input.value));
     const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
-    const root = h('span', { class: `rn-field rn-cell${column.unit ? '' : ' rn-text-cell'}`, 'data-path': path }, input, message);
+    const root = h('span', { class: `rn-field rn-cell${column.unit ? '' : ' rn-text-cell'}`, 'data-path': path, 'data-key': path }, input, message);
     this.cells.set(path, { input, message, root });
     return root;
   }

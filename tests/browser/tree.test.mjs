@@ -202,7 +202,7 @@ test('the demo board typed by hand: every number shown is checkTree\'s; reload k
   // Discard draft: the demo board again, and no draft after a reload.
   await page.locator(`${TAG} button.rn-discard`).click();
   assert.equal(await page.evaluate(() => localStorage.getItem('railnote.tree.draft')), null);
-  assert.equal(await cell(page, 'rails[1].vout').inputValue(), '3.3');
+  assert.equal(await cell(page, 'rails[1].vout').inputValue(), '3.3 V', 'the demo board as typed');
   assert.deepEqual(problems, []);
   assertSameOrigin(requests);
   await context.close();
@@ -320,10 +320,16 @@ test('a rail links to its calculator with its numbers from the tree', async () =
 });
 
 test('the embed opens a shared tree and keeps no draft', async () => {
-  const { context, page, requests, problems } = await open(browser);
+  const { context, page, requests, problems } = await open(browser, { permissions: ['clipboard-read', 'clipboard-write'] });
   await page.goto(url('tree.html'));
   await settled(page, 'ready', TAG);
   const link = await permalink(page);
+  // "Copy share link" gives the same link (copied, or shown selected where copying is refused).
+  await page.locator(`${TAG} button.rn-copy`).click();
+  await page.waitForFunction((tag) => /copied|selected below/.test(document.querySelector(`${tag} .rn-tool-status`).textContent), TAG);
+  const status = await page.locator(`${TAG} .rn-tool-status`).textContent();
+  const copied = /copied/.test(status) ? await page.evaluate(() => navigator.clipboard.readText()) : await page.locator(`${TAG} .rn-link-fallback`).inputValue();
+  assert.equal(copied, link, 'the copied link is the record\'s link');
   const code = new URL(link).hash;
   await page.evaluate(() => localStorage.clear());
   await page.goto(url(`embed.html?calc=tree${code}`));

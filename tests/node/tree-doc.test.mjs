@@ -7,7 +7,7 @@ import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { initSync, parseQuantity, checkTree } from '../../site/pkg/railnote.js';
 import {
-  DocError, MAX_DOC_CHARS, demoDoc, migrate, importJson, exportJson, stateFromDoc, docFromState,
+  DocError, MAX_DOC_CHARS, demoDoc, demoState, migrate, importJson, exportJson, stateFromDoc, docFromState,
   sanitizeState, encodeDoc, decodeDoc, shareUrl, codeFromHash, emptyRow,
 } from '../../site/js/tree-doc.js';
 
@@ -163,6 +163,12 @@ test('page state ⇄ document: the demo through text and the engine parser gives
   assert.deepEqual(errors, []);
   assert.deepStrictEqual(back, doc);
   assert.deepStrictEqual(checkTree(back), checkTree(doc));
+});
+
+test('the demo as the page shows it (typed with units) parses to the demo document exactly', () => {
+  const { doc, errors } = docFromState(demoState(), parseQuantity);
+  assert.deepEqual(errors, []);
+  assert.deepStrictEqual(doc, demoDoc());
 });
 
 test('page state: typed text with units is parsed; bad and missing cells are named like checkTree names them', () => {
