@@ -1,6 +1,6 @@
 // The iframe embed page: one calculator, compact, prefilled from the query (?calc=linear&vin-min=…,
 // ?calc=thermal&power=…, ?calc=divider&vout-target=…, ?calc=switching&vin-min=…,
-// ?calc=compare&vout=…).
+// ?calc=compare&vout=…, ?calc=tree#doc=… with the tree's share code in the fragment).
 // Reports its height to the parent page so a host script can size the iframe; hosts that allow no
 // script give the iframe a fixed height (see linear.html#embed).
 import { h, reportEmbedHeight } from './common.js';
@@ -11,6 +11,7 @@ const CALCULATORS = {
   divider: { tag: 'railnote-divider', module: './divider-widget.js', title: 'Divider picker' },
   switching: { tag: 'railnote-switching', module: './switching-widget.js', title: 'Switching estimate' },
   compare: { tag: 'railnote-compare', module: './compare-widget.js', title: 'Linear or switching' },
+  tree: { tag: 'railnote-tree', module: './tree-widget.js', title: 'Rail tree' },
 };
 
 const root = document.getElementById('embed-root');

@@ -10,9 +10,10 @@ import { launch, open, url, assertSameOrigin, settled, field, OUT_DIR } from './
 
 const PAGES = ['index.html', 'linear.html', 'embed.html?calc=linear', 'thermal.html', 'embed.html?calc=thermal',
   'divider.html', 'embed.html?calc=divider',
-  'switching.html', 'embed.html?calc=switching', 'compare.html', 'embed.html?calc=compare', 'reference.html'];
+  'switching.html', 'embed.html?calc=switching', 'compare.html', 'embed.html?calc=compare',
+  'tree.html', 'embed.html?calc=tree', 'reference.html'];
 /** The calculator element a page shows, if any. */
-const TAG_OF = (p) => (/thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear'
+const TAG_OF = (p) => (/tree/.test(p) ? 'railnote-tree' : /thermal/.test(p) ? 'railnote-thermal' : /linear/.test(p) ? 'railnote-linear'
   : /divider/.test(p) ? 'railnote-divider'
   : /switching/.test(p) ? 'railnote-switching' : /compare/.test(p) ? 'railnote-compare' : null);
 /** A field of each calculator the CSP test types into, with a good value for it. */
@@ -20,6 +21,7 @@ const PROBE = {
   'railnote-linear': ['vin-min', '4.85'], 'railnote-thermal': ['power', '0.49'],
   'railnote-divider': ['vref', '0.8'],
   'railnote-switching': ['fsw', '500k'], 'railnote-compare': ['iout', '250m'],
+  'railnote-tree': ['loads[0].peakA', '250 mA'],
 };
 // The brief's cautions, in the words every page that can lead to hardware must carry.
 const CAUTION_PHRASES = [/first-order/i, /datasheet/i, /measurement/i, /burn/i, /60 V DC/, /mains/i, /local codes/i, /licensed practice/i];
@@ -214,7 +216,8 @@ test('the pages work under a strict Content-Security-Policy with Trusted Types',
   });
   for (const p of ['linear.html?vout=3V3', 'embed.html?calc=linear', 'thermal.html?power=0.4', 'embed.html?calc=thermal',
     'divider.html?vout-target=1.8', 'embed.html?calc=divider',
-    'switching.html?rectifier=diode', 'embed.html?calc=switching', 'compare.html?iout=0.2', 'embed.html?calc=compare', 'index.html', 'reference.html']) {
+    'switching.html?rectifier=diode', 'embed.html?calc=switching', 'compare.html?iout=0.2', 'embed.html?calc=compare',
+    'tree.html', 'embed.html?calc=tree', 'index.html', 'reference.html']) {
     await page.goto(url(p));
     const tag = TAG_OF(p);
     if (tag) {
