@@ -42,7 +42,7 @@
 use crate::error::{check, InputError};
 use crate::fields::{numbers, optional_choice, FieldSource, ReadError};
 use crate::units::{format_quantity, QuantityKind};
-use crate::verdict::{overall, titles_with, Status};
+use crate::verdict::{overall, Status};
 use alloc::format;
 use alloc::string::String;
 use alloc::vec::Vec;
@@ -907,9 +907,16 @@ impl ValidTree {
                 show(nom.source_w.avg, QuantityKind::Power),
                 show(s.v_nom, Voltage)
             ),
+            // Titles carry the rails' own names, so they are joined as typed (the shared
+            // `titles_with` lowers them for the calculators' fixed titles).
             _ => format!(
                 "Fails on {}; first to fail: {}",
-                titles_with(&checks, Status::Fail),
+                checks
+                    .iter()
+                    .filter(|c| c.status == Status::Fail)
+                    .map(|c| c.title.as_str())
+                    .collect::<Vec<_>>()
+                    .join(", "),
                 first_failure.clone().unwrap_or_default()
             ),
         };

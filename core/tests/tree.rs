@@ -168,6 +168,7 @@ fn the_first_rail_to_fail_is_named() {
     let r = check(&input).unwrap();
     assert_eq!(r.verdict, Status::Fail);
     assert_eq!(r.first_failure.as_deref(), Some("3V3 LDO"));
+    assert!(r.summary.contains("3V3 LDO junction"), "{}", r.summary);
     // A 20 mA limit on the battery fails at the source (the buck alone draws 33 mA).
     let mut input = board();
     input.source.current_limit_a = Some(0.02);
