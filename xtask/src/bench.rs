@@ -17,7 +17,8 @@
 //!    (core/examples/bench_switching.rs) and through the page's own WASM in headless Chromium
 //!    (tests/bench/wasm_switching.mjs), side by side with their ratio.
 //! 7. A 200-rail, 1000-load rail tree, natively (core/examples/bench_tree.rs) and in headless
-//!    Chromium (tests/bench/wasm_tree.mjs), with their ratio.
+//!    Chromium (tests/bench/wasm_tree.mjs), with their ratio; and the length of the demo tree's
+//!    compressed share link (tests/bench/tree_link.mjs).
 
 use crate::util::{self, header, output, repo_root, run, Result};
 use crate::{
@@ -227,7 +228,21 @@ fn tree() -> Result {
         wasm_ns / 1e6,
         wasm_ns / native_ns
     );
-    compare_checksums(native, wasm)
+    compare_checksums(native, wasm)?;
+    let link = output(
+        Command::new("node")
+            .arg("tests/bench/tree_link.mjs")
+            .current_dir(repo_root()),
+    )?;
+    let link = last_line(&link);
+    println!(
+        "demo tree's share link: {:.0} characters of JSON, {:.0} after deflate-raw and base64url, \
+         {:.0} for tree.html#doc=… ({link})",
+        field_of(link, "jsonChars")?,
+        field_of(link, "codeChars")?,
+        field_of(link, "linkChars")?
+    );
+    Ok(())
 }
 
 /// Serve site/ on a free port and run one of tests/bench's Chromium scripts against it with
