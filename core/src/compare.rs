@@ -25,11 +25,12 @@
 //! The linear and switching modules' own sources; T_j from JEDEC JESD51-2A. The trade-offs in
 //! words are common practice.
 
+use crate::error::check::figure as show;
 use crate::error::{check, InputError};
 use crate::fields::{choice, required, FieldSource, ReadError};
 use crate::linear::{DropoutModel, LinearInput, ValidLinear};
 use crate::switching::{CornerLabel, SwitchingInput, Topology, ValidSwitching, SWEEP_POINTS};
-use crate::units::{format_quantity, QuantityKind};
+use crate::units::QuantityKind;
 use crate::verdict::Status;
 use alloc::format;
 use alloc::string::String;
@@ -155,10 +156,6 @@ pub struct ValidCompare {
     linear: Result<ValidLinear, String>,
     ta_max: f64,
     sw_theta_ja: f64,
-}
-
-fn show(value: f64, kind: QuantityKind) -> String {
-    format_quantity(value, kind, 3)
 }
 
 /// The comparison's key for a linear check's field.

@@ -61,6 +61,8 @@
 //! normal variables", SIAM Review 6 (1964). PCG: M. E. O'Neill, "PCG: A family of simple fast
 //! space-efficient statistically good algorithms for random number generation" (2014).
 
+use crate::error::check::figure as show;
+use crate::error::check::needed;
 use crate::error::{check, InputError};
 use crate::fields::{count, numbers, optional_choice, FieldSource, ReadError};
 use crate::series::Series;
@@ -564,20 +566,10 @@ struct Found {
     warnings: Vec<String>,
 }
 
-#[inline(never)]
-fn show(value: f64, kind: QuantityKind) -> String {
-    format_quantity(value, kind, 3)
-}
-
 /// Four figures, for voltages that a window of a few percent separates.
 #[inline(never)]
 fn show4(value: f64) -> String {
     format_quantity(value, QuantityKind::Voltage, 4)
-}
-
-#[inline(never)]
-fn needed(field: &'static str, label: &str, value: Option<f64>) -> Result<f64, InputError> {
-    value.ok_or_else(|| InputError::new(field, format!("{label} is needed")))
 }
 
 /// Finite and within `low..=high`, for ranges wider than [`check::LIMIT`] (resistances).

@@ -57,6 +57,16 @@ pub(crate) mod check {
         format!("{number} {unit}")
     }
 
+    /// A value as a message shows it: three significant figures with its unit ("3.30 V").
+    pub fn figure(value: f64, kind: QuantityKind) -> alloc::string::String {
+        format_quantity(value, kind, 3)
+    }
+
+    /// An optional input that must be there.
+    pub fn needed(field: &'static str, label: &str, value: Option<f64>) -> Result<f64, InputError> {
+        value.ok_or_else(|| InputError::new(field, format!("{label} is needed")))
+    }
+
     /// A finite number no larger in magnitude than [`LIMIT`].
     #[inline(never)]
     pub fn finite(

@@ -41,9 +41,10 @@
 //! junction-to-ambient thermal resistance. The dissipation and efficiency relations follow from
 //! conservation of energy and Kirchhoff's current law at the regulator.
 
+use crate::error::check::figure as show;
 use crate::error::{check, InputError};
 use crate::fields::{choice, numbers, required_numbers, FieldSource, ReadError};
-use crate::units::{format_quantity, QuantityKind};
+use crate::units::QuantityKind;
 pub use crate::verdict::Status;
 use crate::verdict::{grade, overall, titles_with};
 use alloc::format;
@@ -320,10 +321,6 @@ impl ValidLinear {
     pub fn input(&self) -> &LinearInput {
         &self.0
     }
-}
-
-fn show(value: f64, kind: QuantityKind) -> String {
-    format_quantity(value, kind, 3)
 }
 
 impl LinearInput {

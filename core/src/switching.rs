@@ -73,10 +73,11 @@
 //! A ripple ratio of 20–40 % of the load current as the starting point for choosing L is common
 //! practice.
 
+use crate::error::check::figure as show;
 use crate::error::{check, InputError};
 use crate::fields::{choice, required, FieldSource, ReadError};
 pub use crate::linear::CornerLabel;
-use crate::units::{format_quantity, QuantityKind};
+use crate::units::QuantityKind;
 pub use crate::verdict::Status;
 
 /// Below and above these ripple ratios (percent of the full-load inductor current) a warning says
@@ -381,10 +382,6 @@ pub struct ValidSwitching {
     rect_qg: f64,
     dead_time: f64,
     body_vf: f64,
-}
-
-fn show(value: f64, kind: QuantityKind) -> String {
-    format_quantity(value, kind, 3)
 }
 
 /// A refusal whose message puts one quantity between two pieces of text (one formatting site

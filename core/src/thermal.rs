@@ -43,9 +43,11 @@
 //! in JEDEC JESD51-14 for transient measurement). The first-order update is the exact solution of
 //! C·dθ/dt = P − θ/R over a step of constant P.
 
+use crate::error::check::figure as show;
+use crate::error::check::needed;
 use crate::error::{check, InputError};
 use crate::fields::{choice, count, numbers, required, required_numbers, FieldSource, ReadError};
-use crate::units::{format_quantity, QuantityKind};
+use crate::units::QuantityKind;
 use crate::verdict::{grade, overall, titles_with, Status};
 use alloc::format;
 use alloc::string::String;
@@ -292,15 +294,7 @@ pub struct ValidThermal {
     periods: u32,
 }
 
-fn show(value: f64, kind: QuantityKind) -> String {
-    format_quantity(value, kind, 3)
-}
-
 /// A required optional: present, or an error naming the field.
-fn needed(field: &'static str, label: &str, value: Option<f64>) -> Result<f64, InputError> {
-    value.ok_or_else(|| InputError::new(field, format!("{label} is needed")))
-}
-
 impl ThermalInput {
     /// Check every value and return the first problem.
     pub fn validate(&self) -> Result<ValidThermal, InputError> {

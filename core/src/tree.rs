@@ -39,9 +39,10 @@
 //! over average current: common practice (it ignores the capacity's fall at high discharge rates
 //! and low temperature; derate it from the battery's datasheet).
 
+use crate::error::check::figure as show;
 use crate::error::{check, InputError};
 use crate::fields::{numbers, optional_choice, FieldSource, ReadError};
-use crate::units::{format_quantity, QuantityKind};
+use crate::units::QuantityKind;
 use crate::verdict::{overall, Status};
 use alloc::format;
 use alloc::string::String;
@@ -349,10 +350,6 @@ pub struct ValidTree {
     parent: Vec<Option<usize>>,
     /// For each load, its rail's index (None: the source).
     load_rail: Vec<Option<usize>>,
-}
-
-fn show(value: f64, kind: QuantityKind) -> String {
-    format_quantity(value, kind, 3)
 }
 
 /// A value check's error, said of the rail.
