@@ -100,3 +100,21 @@ export function close(actual, expected, rel = 1e-9, what = '') {
   const ok = Math.abs(actual - expected) <= rel * Math.max(Math.abs(expected), 1e-30);
   assert.ok(ok, `${what}: got ${actual}, expected ${expected} (relative tolerance ${rel})`);
 }
+
+/**
+ * Open a made-up host page (standing in for a wiki page; served by page.route, never on disk) at
+ * made-up-host/NAME holding one iframe of `src`, and collect the embed's height messages in the
+ * host's window.heights. Returns the frame locator of the iframe (#rn).
+ */
+export async function openEmbedHost(page, name, src, title) {
+  const hostUrl = url(`made-up-host/${name}`);
+  await page.route(hostUrl, (route) => route.fulfill({
+    status: 200, contentType: 'text/html',
+    body: `<!doctype html><html><head><meta charset="utf-8"><title>host</title></head><body>
+<iframe id="rn" src="${src}" title="${title}" width="900" height="400" style="border:0"></iframe>
+<script>window.heights = []; addEventListener('message', (e) => { if (e.data && e.data.type === 'railnote-height') window.heights.push(e.data); });</script>
+</body></html>`,
+  }));
+  await page.goto(hostUrl);
+  return page.frameLocator('#rn');
+}

@@ -11,7 +11,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  launch, open, url, assertSameOrigin, settled, field, message, result, close, OUT_DIR,
+  launch, open, url, assertSameOrigin, settled, field, message, result, close, OUT_DIR, openEmbedHost,
 } from './browser.mjs';
 
 const TAG = 'railnote-compare';
@@ -309,17 +309,7 @@ test('from the switching page, "compare with a linear regulator" carries the who
 
 test('the embed page shows the comparison from its link, compactly, and reports its height', async () => {
   const { context, page, requests, problems } = await open(browser);
-  const hostUrl = url('made-up-host/compare-notes.html');
-  const src = url('embed.html?calc=compare&iout=150m&ldo-theta-ja=120');
-  await page.route(hostUrl, (route) => route.fulfill({
-    status: 200, contentType: 'text/html',
-    body: `<!doctype html><html><head><meta charset="utf-8"><title>host</title></head><body>
-<iframe id="rn" src="${src}" title="Linear or switching" width="900" height="400" style="border:0"></iframe>
-<script>window.heights = []; addEventListener('message', (e) => { if (e.data && e.data.type === 'railnote-height') window.heights.push(e.data); });</script>
-</body></html>`,
-  }));
-  await page.goto(hostUrl);
-  const frame = page.frameLocator('#rn');
+  const frame = await openEmbedHost(page, 'compare-notes.html', url('embed.html?calc=compare&iout=150m&ldo-theta-ja=120'), 'Linear or switching');
   assert.equal(await settled(frame, 'ready', TAG), 'ready');
   const r = await frame.locator(TAG).evaluate((el) => el.result);
   assert.deepEqual(r, (await engine(page, 'compareRails', { ...DEMO, iout: 0.15, ldoThetaJa: 120 })).report);

@@ -13,7 +13,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  launch, open, url, assertSameOrigin, settled, field, message, result, close, OUT_DIR, ORIGIN,
+  launch, open, url, assertSameOrigin, settled, field, message, result, close, OUT_DIR, ORIGIN, openEmbedHost,
 } from './browser.mjs';
 
 const TAG = 'railnote-switching';
@@ -398,17 +398,7 @@ test('the linear page\'s "try this rail as a switcher" fills the switching page 
 
 test('the embed page shows the switching estimate from its link, compactly, and reports its height', async () => {
   const { context, page, requests, problems } = await open(browser);
-  const hostUrl = url('made-up-host/switching-notes.html');
-  const src = url('embed.html?calc=switching&rectifier=diode&fsw=400k');
-  await page.route(hostUrl, (route) => route.fulfill({
-    status: 200, contentType: 'text/html',
-    body: `<!doctype html><html><head><meta charset="utf-8"><title>host</title></head><body>
-<iframe id="rn" src="${src}" title="Switching estimate" width="900" height="400" style="border:0"></iframe>
-<script>window.heights = []; addEventListener('message', (e) => { if (e.data && e.data.type === 'railnote-height') window.heights.push(e.data); });</script>
-</body></html>`,
-  }));
-  await page.goto(hostUrl);
-  const frame = page.frameLocator('#rn');
+  const frame = await openEmbedHost(page, 'switching-notes.html', url('embed.html?calc=switching&rectifier=diode&fsw=400k'), 'Switching estimate');
   assert.equal(await settled(frame, 'ready', TAG), 'ready');
   assert.equal(await field(frame, 'fsw', TAG).inputValue(), '400k');
   const r = await frame.locator(TAG).evaluate((el) => el.result);

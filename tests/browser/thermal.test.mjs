@@ -4,7 +4,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  launch, open, url, assertSameOrigin, settled, field, message, result, close, OUT_DIR, ORIGIN,
+  launch, open, url, assertSameOrigin, settled, field, message, result, close, OUT_DIR, ORIGIN, openEmbedHost,
 } from './browser.mjs';
 
 const TAG = 'railnote-thermal';
@@ -381,17 +381,7 @@ test('the linear page\'s "check the thermal path" link fills the thermal page wi
 
 test('the embed page shows the thermal calculator from its link, compactly, and reports its height', async () => {
   const { context, page, requests, problems } = await open(browser);
-  const hostUrl = url('made-up-host/thermal-notes.html');
-  const src = url('embed.html?calc=thermal&power=0.3&theta-ja=80&psi-jt=&case-top=');
-  await page.route(hostUrl, (route) => route.fulfill({
-    status: 200, contentType: 'text/html',
-    body: `<!doctype html><html><head><meta charset="utf-8"><title>host</title></head><body>
-<iframe id="rn" src="${src}" title="Thermal path" width="900" height="400" style="border:0"></iframe>
-<script>window.heights = []; addEventListener('message', (e) => { if (e.data && e.data.type === 'railnote-height') window.heights.push(e.data); });</script>
-</body></html>`,
-  }));
-  await page.goto(hostUrl);
-  const frame = page.frameLocator('#rn');
+  const frame = await openEmbedHost(page, 'thermal-notes.html', url('embed.html?calc=thermal&power=0.3&theta-ja=80&psi-jt=&case-top='), 'Thermal path');
   assert.equal(await settled(frame, 'ready', TAG), 'ready');
   assert.equal(await field(frame, 'power', TAG).inputValue(), '0.3');
   const r = await frame.locator(TAG).evaluate((el) => el.result);
