@@ -15,19 +15,7 @@ use std::time::Instant;
 
 /// The i-th tree; tests/bench/wasm_tree.mjs builds the same.
 fn tree(i: usize) -> TreeInput {
-    let rail = |name: String, parent: String, kind| RailSpec {
-        name,
-        parent,
-        kind,
-        vout: None,
-        efficiency_pct: None,
-        iq: None,
-        dropout_v: None,
-        r_on: None,
-        theta_ja: None,
-        tj_max: None,
-        rated_a: None,
-    };
+    let rail = |name: String, parent: String, kind| RailSpec::new(&name, &parent, kind);
     let mut rails = Vec::new();
     let mut leaves = Vec::new();
     for b in 0..20 {
@@ -80,7 +68,7 @@ fn tree(i: usize) -> TreeInput {
             v_min: 20.0,
             v_nom: 24.0 + 0.01 * (i % 7) as f64,
             v_max: 28.0,
-            capacity_mah: Some(10_000.0),
+            capacity_ah: Some(10.0),
             capacity_wh: None,
             current_limit_a: Some(10.0),
         },

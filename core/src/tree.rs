@@ -9,8 +9,12 @@
 //! rail's output current is the sum of its loads' and its child rails' input currents
 //! (Kirchhoff's current law at the rail), and its input current is
 //!
-//! - linear: I_out + I_q (the pass element carries the load current; ground current adds I_q);
+//! - linear: I_out + I_q + k·I_out (the pass element carries the load current; the ground
+//!   current adds I_q and a share k of the load, as in the linear rail check);
 //! - switching, fixed efficiency η: V_out·I_out / (η·V_in) + I_q;
+//! - switching, through the switching estimate (the rail carries its parts: topology, f_sw, L,
+//!   switches, inductor, capacitor): P_in / V_in of the estimate's operating point at that V_in
+//!   and I_out, which counts the controller's I_q among its losses;
 //! - plain switch: I_out.
 //!
 //! A load draws a current, or a power P (then I = P / V at its rail). Because a switch's drop and
@@ -21,17 +25,31 @@
 //!
 //! Three load cases: typical (every load at its typical draw), peak (every load at its peak) and
 //! average (each load at its typical draw for its activity fraction and at its sleep current the
-//! rest of the time). Checks use the peak case at the corner where it hurts: headroom at the
-//! lowest source voltage, heat at the highest, with the hottest ambient: T_j = T_a + θJA·P
-//! (JEDEC JESD51-2A's junction-to-ambient relation, as in the thermal path calculator). Battery
-//! runtime is the capacity over the average current (mAh) or the average power (Wh) at the
-//! nominal voltage.
+//! rest of the time).
+//!
+//! Checks. Once the tree is solved, every linear rail goes through the linear rail check
+//! ([`crate::linear::check`]) with what the tree found: its input at the source's lowest, nominal
+//! and highest voltage (peak case), its largest peak output current and its typical output
+//! current at the nominal voltage, and the rail's own dropout model, ground current, output
+//! tolerance, margins, θJA and limits. So headroom, junction temperature and rating are graded
+//! exactly as on the linear page, margins and "marginal" included. A rail estimated from its parts
+//! goes through the switching estimate ([`crate::switching::check_switching`]) the same way, for
+//! its duty, on-time and saturation checks. Every other rail with a θJA gets
+//! T_j = T_a + θJA·P at peak load and the highest source voltage (JEDEC JESD51-2A's
+//! junction-to-ambient relation, as in the thermal path calculator), and a rating check when
+//! rated. Battery runtime is the capacity over the average current (Ah) or the average power (Wh)
+//! at the nominal voltage.
+//!
+//! A check the rail gives no figures for is not made: a linear rail without θJA has no junction
+//! check, one without a rating no current check (the linear check is run with neutral values for
+//! them, and those checks are left out).
 //!
 //! # Assumptions
 //!
-//! Dropout constant (bipolar-like) for linear rails; switching efficiency fixed over load;
-//! regulators start and stay up (no start-up surge, no undervoltage lockout); the peaks of all
-//! loads coincide, which errs on the safe side.
+//! Regulators start and stay up (no start-up surge, no undervoltage lockout); a fixed efficiency
+//! is the same at every load; a switching rail keeps its set output even where its estimate runs
+//! out of duty (the duty check then fails); the peaks of all loads coincide, which errs on the
+//! safe side.
 //!
 //! # Sources
 //!
@@ -42,6 +60,8 @@
 use crate::error::check::figure as show;
 use crate::error::{check, InputError};
 use crate::fields::{numbers, optional_choice, FieldSource, ReadError};
+use crate::linear::{DropoutModel, LinearInput};
+use crate::switching::{CornerLabel, SwitchingInput, Topology, ValidSwitching};
 use crate::units::QuantityKind;
 use crate::verdict::{overall, Status};
 use alloc::format;
@@ -52,8 +72,9 @@ use alloc::vec::Vec;
 /// document cannot make the page spin.
 pub const MAX_RAILS: usize = 500;
 pub const MAX_LOADS: usize = 2000;
-/// The version of the tree document [`TreeInput::read`] reads.
-pub const SCHEMA_VERSION: u32 = 1;
+/// The newest version of the tree document [`TreeInput::read`] reads. Version 1 is read too:
+/// it gave the capacity as `capacityMah` (mAh) and had no per-rail linear details or estimates.
+pub const SCHEMA_VERSION: u32 = 2;
 /// Rounds of the voltage–current alternation.
 const MAX_ROUNDS: usize = 100;
 
@@ -72,7 +93,9 @@ pub struct SourceSpec {
     pub v_min: f64,
     pub v_nom: f64,
     pub v_max: f64,
-    pub capacity_mah: Option<f64>,
+    /// Charge capacity, ampere-hours (document key `capacityAh`; version 1's `capacityMah` is
+    /// read into it).
+    pub capacity_ah: Option<f64>,
     pub capacity_wh: Option<f64>,
     pub current_limit_a: Option<f64>,
 }
@@ -98,6 +121,77 @@ pub struct RailSpec {
     pub tj_max: Option<f64>,
     /// Rated output current, if it is to be checked.
     pub rated_a: Option<f64>,
+    /// Linear: how the dropout depends on load (default constant).
+    pub dropout_model: Option<DropoutModel>,
+    /// Linear, resistive model: the current the dropout is rated at.
+    pub dropout_at_a: Option<f64>,
+    /// Linear: ground current that grows with the load, percent of it (default 0).
+    pub gnd_pct: Option<f64>,
+    /// Linear: the output's ± tolerance, percent (default 0).
+    pub vout_tol_pct: Option<f64>,
+    /// Linear: the headroom and junction margins wanted (default 0).
+    pub headroom_margin_v: Option<f64>,
+    pub thermal_margin_c: Option<f64>,
+    /// Switching: estimated from its parts instead of a fixed efficiency (document key
+    /// `efficiencyFrom: "estimate"` and the switching estimate's own keys on the rail). Its
+    /// input voltages and load are placeholders here; the tree supplies them.
+    pub estimate: Option<SwitchingInput>,
+}
+
+impl RailSpec {
+    /// A rail with only its name, parent and kind; every figure absent.
+    pub fn new(name: &str, parent: &str, kind: RailKind) -> RailSpec {
+        RailSpec {
+            name: String::from(name),
+            parent: String::from(parent),
+            kind,
+            vout: None,
+            efficiency_pct: None,
+            iq: None,
+            dropout_v: None,
+            r_on: None,
+            theta_ja: None,
+            tj_max: None,
+            rated_a: None,
+            dropout_model: None,
+            dropout_at_a: None,
+            gnd_pct: None,
+            vout_tol_pct: None,
+            headroom_margin_v: None,
+            thermal_margin_c: None,
+            estimate: None,
+        }
+    }
+}
+
+/// A rail's fields as the switching estimate reads them: the rail's own keys (`vout`, `iq`,
+/// `fsw`, `inductance`, …), with the input voltages and the load, which the tree supplies,
+/// standing in as 1 until the tree is solved.
+struct EstimateKeys<'a> {
+    rail: &'a mut dyn FieldSource,
+}
+
+impl FieldSource for EstimateKeys<'_> {
+    fn number(&mut self, key: &'static str) -> Result<Option<f64>, ReadError> {
+        match key {
+            "vinMin" | "vinNom" | "vinMax" | "iout" => Ok(Some(1.0)),
+            "iq" => Ok(Some(self.rail.number("iq")?.unwrap_or(0.0))),
+            _ => self.rail.number(key),
+        }
+    }
+    fn text(&mut self, key: &'static str) -> Result<Option<String>, ReadError> {
+        self.rail.text(key)
+    }
+    fn each_object(
+        &mut self,
+        key: &'static str,
+        item: &mut dyn FnMut(&mut dyn FieldSource) -> Result<(), ReadError>,
+    ) -> Result<(), ReadError> {
+        self.rail.each_object(key, item)
+    }
+    fn error(&self, key: &str, message: String) -> ReadError {
+        self.rail.error(key, message)
+    }
 }
 
 /// One load on a rail (or on the source).
@@ -138,29 +232,29 @@ impl TreeInput {
     pub fn read(f: &mut dyn FieldSource) -> Result<TreeInput, ReadError> {
         // The document's schema version: 1 is the only one so far (and what a document without
         // the field is taken to be); a later version must migrate older documents here.
-        match crate::fields::count(f, "version")? {
-            None | Some(SCHEMA_VERSION) => {}
+        let version = match crate::fields::count(f, "version")? {
+            None | Some(1) => 1,
+            Some(SCHEMA_VERSION) => SCHEMA_VERSION,
             Some(_) => {
                 return Err(f.error(
                     "version",
-                    String::from("this document is of a schema version this railnote does not know (it reads version 1)"),
+                    String::from("this document is of a schema version this railnote does not know (it reads versions 1 and 2)"),
                 ))
             }
-        }
+        };
+        // Version 1 gave the charge capacity in mAh; version 2 in Ah.
+        let (capacity_key, capacity_per_ah) = if version == 1 {
+            ("capacityMah", 1000.0)
+        } else {
+            ("capacityAh", 1.0)
+        };
         let mut sources = Vec::new();
         f.each_object("sources", &mut |s| {
             let name = name_of(s, "name")?;
-            let [v_min, v_nom, v_max, capacity_mah, capacity_wh, current_limit_a] = numbers(
-                s,
-                &[
-                    "vMin",
-                    "vNom",
-                    "vMax",
-                    "capacityMah",
-                    "capacityWh",
-                    "currentLimitA",
-                ],
-            )?;
+            let [v_min, v_nom, v_max, capacity_wh, current_limit_a] =
+                numbers(s, &["vMin", "vNom", "vMax", "capacityWh", "currentLimitA"])?;
+            // Divided, as the page's version 1 → 2 migration does, so both give the same double.
+            let capacity_ah = s.number(capacity_key)?.map(|c| c / capacity_per_ah);
             let need = |s: &mut dyn FieldSource, key, v: Option<f64>| {
                 v.ok_or_else(|| s.error(key, String::from("a number is needed here")))
             };
@@ -169,7 +263,7 @@ impl TreeInput {
                 v_min: need(s, "vMin", v_min)?,
                 v_nom: need(s, "vNom", v_nom)?,
                 v_max: need(s, "vMax", v_max)?,
-                capacity_mah,
+                capacity_ah,
                 capacity_wh,
                 current_limit_a,
             });
@@ -207,6 +301,34 @@ impl TreeInput {
                     "ratedA",
                 ],
             )?;
+            let [dropout_at_a, gnd_pct, vout_tol_pct, headroom_margin_v, thermal_margin_c] =
+                numbers(
+                    r,
+                    &[
+                        "dropoutAtA",
+                        "gndPct",
+                        "voutTolPct",
+                        "headroomMarginV",
+                        "thermalMarginC",
+                    ],
+                )?;
+            let dropout_model = optional_choice(
+                r,
+                "dropoutModel",
+                &[
+                    ("resistive", DropoutModel::Resistive),
+                    ("constant", DropoutModel::Constant),
+                    ("classic", DropoutModel::Classic),
+                ],
+            )?;
+            let estimated =
+                optional_choice(r, "efficiencyFrom", &[("fixed", false), ("estimate", true)])?
+                    .unwrap_or(false);
+            let estimate = if estimated && kind == RailKind::Switching {
+                Some(SwitchingInput::read(&mut EstimateKeys { rail: r })?)
+            } else {
+                None
+            };
             rails.push(RailSpec {
                 name,
                 parent,
@@ -219,6 +341,13 @@ impl TreeInput {
                 theta_ja,
                 tj_max,
                 rated_a,
+                dropout_model,
+                dropout_at_a,
+                gnd_pct,
+                vout_tol_pct,
+                headroom_margin_v,
+                thermal_margin_c,
+                estimate,
             });
             Ok(())
         })?;
@@ -267,10 +396,26 @@ pub enum CheckId {
     Thermal,
     Rating,
     SourceLimit,
+    /// A switching rail estimated from its parts: the switching estimate's checks.
+    Duty,
+    OnTime,
+    Saturation,
 }
 
 /// One check of one rail (or the source), its outcome and the reason in words.
 pub type Check = crate::verdict::Check<CheckId>;
+
+/// A check as the report gives it: with the name of the rail (or the source) it is about.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "camelCase"))]
+pub struct TreeCheck {
+    pub rail: String,
+    pub id: CheckId,
+    pub title: String,
+    pub status: crate::verdict::Status,
+    pub text: String,
+}
 
 /// A load case's three figures.
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
@@ -330,7 +475,7 @@ pub struct TreeCorner {
 pub struct TreeReport {
     pub verdict: Status,
     pub summary: String,
-    pub checks: Vec<Check>,
+    pub checks: Vec<TreeCheck>,
     /// The rail (or source) whose check fails first: the worst check, earliest in the tree.
     pub first_failure: Option<String>,
     /// At the source's lowest, nominal and highest voltage.
@@ -350,6 +495,9 @@ pub struct ValidTree {
     parent: Vec<Option<usize>>,
     /// For each load, its rail's index (None: the source).
     load_rail: Vec<Option<usize>>,
+    /// For each rail estimated from its parts, the checked estimate (input voltages and load
+    /// are placeholders; [`ValidSwitching::point`] takes them per operating point).
+    estimates: Vec<Option<ValidSwitching>>,
 }
 
 /// A value check's error, said of the rail.
@@ -368,7 +516,8 @@ impl TreeInput {
     /// Check every value and every link, and order the rails parents first.
     pub fn validate(&self) -> Result<ValidTree, InputError> {
         use QuantityKind::{
-            Current, Percent, Power, Resistance, Temperature, ThermalResistance, Voltage,
+            BatteryCharge, Current, Energy, Percent, Power, Resistance, Temperature,
+            TemperatureDifference, ThermalResistance, Voltage,
         };
         let s = &self.source;
         if s.name.trim().is_empty() {
@@ -389,17 +538,14 @@ impl TreeInput {
                 "The source's voltages must run lowest ≤ nominal ≤ highest",
             ));
         }
-        for v in [s.capacity_mah, s.capacity_wh, s.current_limit_a]
-            .into_iter()
-            .flatten()
-        {
-            check::above(
-                "source",
-                "The source's capacity or current limit",
-                v,
-                0.0,
-                Current,
-            )?;
+        if let Some(c) = s.capacity_ah {
+            check::above("source", "The source's capacity", c, 0.0, BatteryCharge)?;
+        }
+        if let Some(c) = s.capacity_wh {
+            check::above("source", "The source's capacity", c, 0.0, Energy)?;
+        }
+        if let Some(c) = s.current_limit_a {
+            check::above("source", "The source's current limit", c, 0.0, Current)?;
         }
         check::within(
             "taMax",
@@ -490,6 +636,7 @@ impl TreeInput {
         }
         // Values, and the highest voltage each rail can give (for "below its own output").
         let mut highest = alloc::vec![0.0; self.rails.len()];
+        let mut estimates = alloc::vec![None; self.rails.len()];
         for &i in &order {
             let r = &self.rails[i];
             let bad = |m: &str| rail_error(&r.name, String::from(m));
@@ -513,13 +660,90 @@ impl TreeInput {
                     }
                     check::at_least("rails", "V_do", r.dropout_v.unwrap_or(0.0), 0.0, Voltage)
                         .map_err(|e| on_rail(&r.name, e))?;
+                    if r.dropout_model == Some(DropoutModel::Resistive) {
+                        let at = r.dropout_at_a.ok_or_else(|| {
+                            bad("a resistive dropout needs the current it is rated at")
+                        })?;
+                        check::at_least(
+                            "rails",
+                            "The current the dropout is rated at",
+                            at,
+                            1e-9,
+                            Current,
+                        )
+                        .map_err(|e| on_rail(&r.name, e))?;
+                    }
+                    let within = |v: Option<f64>, what: &str, to: f64| {
+                        check::within("rails", what, v.unwrap_or(0.0), 0.0, to, Percent)
+                            .map_err(|e| on_rail(&r.name, e))
+                    };
+                    within(r.gnd_pct, "The load-dependent ground current", 50.0)?;
+                    within(r.vout_tol_pct, "The V_out tolerance", 20.0)?;
+                    check::at_least(
+                        "rails",
+                        "The headroom margin",
+                        r.headroom_margin_v.unwrap_or(0.0),
+                        0.0,
+                        Voltage,
+                    )
+                    .map_err(|e| on_rail(&r.name, e))?;
+                    check::at_least(
+                        "rails",
+                        "The thermal margin",
+                        r.thermal_margin_c.unwrap_or(0.0),
+                        0.0,
+                        TemperatureDifference,
+                    )
+                    .map_err(|e| on_rail(&r.name, e))?;
                     highest[i] = vout;
                 }
                 RailKind::Switching => {
-                    highest[i] = positive(r.vout, "V_out", Voltage)?;
-                    let eta = positive(r.efficiency_pct, "The efficiency", Percent)?;
-                    if eta > 100.0 {
-                        return Err(bad("the efficiency must not be above 100 %"));
+                    let vout = positive(r.vout, "V_out", Voltage)?;
+                    highest[i] = vout;
+                    match &r.estimate {
+                        None => {
+                            let eta = positive(r.efficiency_pct, "The efficiency", Percent)?;
+                            if eta > 100.0 {
+                                return Err(bad("the efficiency must not be above 100 %"));
+                            }
+                        }
+                        Some(est) => {
+                            if est.inductance.is_none() {
+                                return Err(bad(
+                                    "an estimate from parts needs the inductance L (the tree proposes none)",
+                                ));
+                            }
+                            // Checked at the parent's highest voltage as a stand-in; a boost
+                            // must stay above whatever its parent gives.
+                            let boost = est.topology == Topology::Boost;
+                            if boost && vout <= from {
+                                return Err(rail_error(
+                                    &r.name,
+                                    format!(
+                                        "a boost cannot give {} from a parent that reaches {}",
+                                        show(vout, Voltage),
+                                        show(from, Voltage)
+                                    ),
+                                ));
+                            }
+                            if est.topology == Topology::Buck && vout >= from {
+                                return Err(rail_error(
+                                    &r.name,
+                                    format!(
+                                        "a buck cannot give {} from a parent of at most {}",
+                                        show(vout, Voltage),
+                                        show(from, Voltage)
+                                    ),
+                                ));
+                            }
+                            let mut stand_in = est.clone();
+                            stand_in.vin_min = from;
+                            stand_in.vin_nom = from;
+                            stand_in.vin_max = from;
+                            stand_in.iout = 1.0;
+                            let valid = stand_in.validate().map_err(|e| on_rail(&r.name, e))?;
+                            estimates[i] = Some(valid);
+                        }
                     }
                 }
                 RailKind::Switch => {
@@ -531,11 +755,22 @@ impl TreeInput {
             check::at_least("rails", "I_q", r.iq.unwrap_or(0.0), 0.0, Current)
                 .map_err(|e| on_rail(&r.name, e))?;
             if let Some(t) = r.theta_ja {
-                check::above("rails", "θJA", t, 0.0, ThermalResistance)
+                // The linear check's own floor: below 1 mK/W nothing on a board conducts heat.
+                check::at_least("rails", "θJA", t, 1e-3, ThermalResistance)
                     .map_err(|e| on_rail(&r.name, e))?;
                 let tj = r.tj_max.unwrap_or(125.0);
                 check::within("rails", "T_j,max", tj, -100.0, 250.0, Temperature)
                     .map_err(|e| on_rail(&r.name, e))?;
+                if tj <= self.ta_max {
+                    return Err(rail_error(
+                        &r.name,
+                        format!(
+                            "T_j,max {} must be above the hottest ambient {}",
+                            show(tj, Temperature),
+                            show(self.ta_max, Temperature)
+                        ),
+                    ));
+                }
             }
             if let Some(a) = r.rated_a {
                 check::above("rails", "The rated current", a, 0.0, Current)
@@ -592,6 +827,7 @@ impl TreeInput {
             order,
             parent,
             load_rail,
+            estimates,
         })
     }
 }
@@ -599,6 +835,16 @@ impl TreeInput {
 /// Check and compute in one step.
 pub fn check_tree(input: &TreeInput) -> Result<TreeReport, InputError> {
     Ok(input.validate()?.report())
+}
+
+/// A linear rail's dropout at output current `i`, by its dropout model (as the linear check).
+fn dropout_at(r: &RailSpec, i: f64) -> f64 {
+    let v = r.dropout_v.unwrap_or(0.0);
+    match r.dropout_model.unwrap_or(DropoutModel::Constant) {
+        DropoutModel::Constant => v,
+        DropoutModel::Classic => crate::linear::CLASSIC_DROPOUT_V,
+        DropoutModel::Resistive => v * i / r.dropout_at_a.unwrap_or(1.0),
+    }
 }
 
 /// Which load case.
@@ -673,7 +919,7 @@ impl ValidTree {
                     RailKind::Linear => r
                         .vout
                         .unwrap_or(0.0)
-                        .min(vin - r.dropout_v.unwrap_or(0.0))
+                        .min(vin - dropout_at(r, s.i_out[i]))
                         .max(0.0),
                     RailKind::Switching => {
                         if vin > 0.0 {
@@ -703,7 +949,13 @@ impl ValidTree {
                 let iq = r.iq.unwrap_or(0.0);
                 let vin = s.v_in[i];
                 let iin = match r.kind {
-                    RailKind::Linear => i_out[i] + iq,
+                    RailKind::Linear => i_out[i] * (1.0 + r.gnd_pct.unwrap_or(0.0) / 100.0) + iq,
+                    RailKind::Switching if vin > 0.0 && self.estimates[i].is_some() => {
+                        let est = self.estimates[i].as_ref();
+                        est.map_or(0.0, |e| {
+                            e.point(CornerLabel::Nom, vin, i_out[i]).input_current_a
+                        })
+                    }
                     RailKind::Switching => {
                         if vin > 0.0 {
                             s.v_out[i] * i_out[i]
@@ -786,39 +1038,169 @@ impl ValidTree {
         (corner, peak)
     }
 
+    /// A linear rail through the linear rail check, with the inputs and loads the tree found.
+    /// Only the checks the rail has figures for are kept: headroom always, the junction with a
+    /// θJA, the current with a rating.
+    fn linear_checks(
+        &self,
+        r: &RailSpec,
+        vins: [f64; 3],
+        peak_out: f64,
+        nominal: &RailResult,
+        checks: &mut Vec<Check>,
+    ) {
+        use QuantityKind::Voltage;
+        let vout = r.vout.unwrap_or(0.0);
+        // Nothing on the rail: checked at 1 nA, which is no load for any regulator.
+        let iout_max = peak_out.max(1e-9);
+        let tj_max = r.tj_max.unwrap_or(125.0);
+        let input = LinearInput {
+            vin_min: vins[0],
+            vin_nom: vins[1],
+            vin_max: vins[2],
+            vout,
+            vout_tol_pct: r.vout_tol_pct.unwrap_or(0.0),
+            iout_max,
+            iout_typ: nominal.iout_a.typ.clamp(0.0, iout_max),
+            iq: r.iq.unwrap_or(0.0),
+            gnd_pct: r.gnd_pct.unwrap_or(0.0),
+            dropout_model: r.dropout_model.unwrap_or(DropoutModel::Constant),
+            dropout_v: r.dropout_v.unwrap_or(0.0),
+            dropout_at_a: r.dropout_at_a.unwrap_or(1.0),
+            // Neutral stand-ins for the checks not asked for (left out below).
+            rated_a: r.rated_a.unwrap_or(1e6),
+            theta_ja: r.theta_ja.unwrap_or(1e-3),
+            ta_max: self.input.ta_max,
+            tj_max: if r.theta_ja.is_some() {
+                tj_max
+            } else {
+                self.input.ta_max + 1000.0
+            },
+            headroom_margin_v: r.headroom_margin_v.unwrap_or(0.0),
+            thermal_margin_c: r.thermal_margin_c.unwrap_or(0.0),
+            eff_min_pct: None,
+            input_budget_a: None,
+        };
+        match crate::linear::check(&input) {
+            Ok(report) => {
+                for c in report.checks {
+                    let (id, word) = match c.id {
+                        crate::linear::CheckId::Headroom => (CheckId::Headroom, "headroom"),
+                        crate::linear::CheckId::Thermal if r.theta_ja.is_some() => {
+                            (CheckId::Thermal, "junction")
+                        }
+                        crate::linear::CheckId::Rating if r.rated_a.is_some() => {
+                            (CheckId::Rating, "current")
+                        }
+                        _ => continue,
+                    };
+                    checks.push(Check {
+                        id,
+                        title: format!("{} {word}", r.name),
+                        status: c.status,
+                        text: c.text,
+                    });
+                }
+            }
+            // The refusal left once the rail's own values were checked: its input falls to its
+            // output or below (a parent in dropout, a switch dropping too much).
+            Err(e) => checks.push(Check {
+                id: CheckId::Headroom,
+                title: format!("{} headroom", r.name),
+                status: Status::Fail,
+                text: if vins[0] <= vout {
+                    format!(
+                        "Its input falls to {} at the source's lowest voltage, not above V_out \
+                         {}: it cannot regulate",
+                        show(vins[0], Voltage),
+                        show(vout, Voltage)
+                    )
+                } else {
+                    format!(
+                        "The linear rail check refused the figures the tree gives it: {}",
+                        e.message
+                    )
+                },
+            }),
+        }
+    }
+
+    /// A switching rail estimated from its parts, through the switching estimate with the
+    /// inputs and the peak load the tree found: its duty, on-time and saturation checks.
+    fn estimate_checks(
+        &self,
+        r: &RailSpec,
+        vins: [f64; 3],
+        peak_out: f64,
+        checks: &mut Vec<Check>,
+    ) {
+        let Some(est) = &r.estimate else { return };
+        let mut input = est.clone();
+        (input.vin_min, input.vin_nom, input.vin_max) = (vins[0], vins[1], vins[2]);
+        input.iout = peak_out.max(1e-9);
+        match crate::switching::check_switching(&input) {
+            Ok(report) => {
+                for c in report.checks {
+                    let (id, word) = match c.id {
+                        crate::switching::CheckId::Duty => (CheckId::Duty, "duty"),
+                        crate::switching::CheckId::OnTime => (CheckId::OnTime, "on-time"),
+                        crate::switching::CheckId::Saturation => {
+                            (CheckId::Saturation, "saturation")
+                        }
+                    };
+                    checks.push(Check {
+                        id,
+                        title: format!("{} {word}", r.name),
+                        status: c.status,
+                        text: c.text,
+                    });
+                }
+            }
+            // A parent that falls below a buck's output (or rises above a boost's).
+            Err(e) => checks.push(Check {
+                id: CheckId::Duty,
+                title: format!("{} duty", r.name),
+                status: Status::Fail,
+                text: format!(
+                    "With the inputs the tree gives it, it cannot regulate: {}",
+                    e.message
+                ),
+            }),
+        }
+    }
+
     /// Compute the report; cannot fail.
     pub fn report(&self) -> TreeReport {
         use QuantityKind::{Current, Temperature, TemperatureDifference, Voltage};
         let s = &self.input.source;
-        let (low, low_peak) = self.corner(s.v_min);
+        let (low, _) = self.corner(s.v_min);
         let (nom, _) = self.corner(s.v_nom);
         let (high, high_peak) = self.corner(s.v_max);
         let mut checks = Vec::new();
         let mut owners = Vec::new();
         for &i in &self.order {
             let r = &self.input.rails[i];
-            if r.kind == RailKind::Linear {
-                let headroom =
-                    low_peak.v_in[i] - r.vout.unwrap_or(0.0) - r.dropout_v.unwrap_or(0.0);
-                checks.push(Check {
-                    id: CheckId::Headroom,
-                    title: format!("{} headroom", r.name),
-                    status: if headroom >= 0.0 {
-                        Status::Pass
-                    } else {
-                        Status::Fail
-                    },
-                    text: format!(
-                        "At the source's lowest voltage its input is {}, {} {} over V_out plus \
-                         dropout",
-                        show(low_peak.v_in[i], Voltage),
-                        show(libm::fabs(headroom), Voltage),
-                        if headroom >= 0.0 { "above" } else { "short of" }
-                    ),
-                });
-                owners.push(i);
+            fn at(c: &TreeCorner, i: usize) -> &RailResult {
+                &c.rails[i]
             }
-            if let Some(theta) = r.theta_ja {
+            let peak_out = at(&low, i)
+                .iout_a
+                .peak
+                .max(at(&nom, i).iout_a.peak)
+                .max(at(&high, i).iout_a.peak);
+            // The input at the three source voltages, lowest first (a rail's input rises with
+            // the source's, but sort rather than assume it).
+            let mut vins = [at(&low, i).vin, at(&nom, i).vin, at(&high, i).vin];
+            vins.sort_by(f64::total_cmp);
+            match r.kind {
+                RailKind::Linear => self.linear_checks(r, vins, peak_out, at(&nom, i), &mut checks),
+                RailKind::Switching if r.estimate.is_some() => {
+                    self.estimate_checks(r, vins, peak_out, &mut checks)
+                }
+                _ => {}
+            }
+            let generic = r.kind != RailKind::Linear;
+            if let (Some(theta), true) = (r.theta_ja, generic) {
                 let p =
                     high_peak.v_in[i] * high_peak.i_in[i] - high_peak.v_out[i] * high_peak.i_out[i];
                 let tj = self.input.ta_max + theta * p;
@@ -842,26 +1224,24 @@ impl ValidTree {
                         if tj <= limit { "to spare" } else { "over" }
                     ),
                 });
-                owners.push(i);
             }
-            if let Some(rated) = r.rated_a {
-                let peak = low_peak.i_out[i].max(high_peak.i_out[i]);
+            if let (Some(rated), true) = (r.rated_a, generic) {
                 checks.push(Check {
                     id: CheckId::Rating,
                     title: format!("{} current", r.name),
-                    status: if peak <= rated {
+                    status: if peak_out <= rated {
                         Status::Pass
                     } else {
                         Status::Fail
                     },
                     text: format!(
                         "Peak output {} against its rating {}",
-                        show(peak, Current),
+                        show(peak_out, Current),
                         show(rated, Current)
                     ),
                 });
-                owners.push(i);
             }
+            owners.resize(checks.len(), i);
         }
         if let Some(limit) = s.current_limit_a {
             let peak = low.source_a.peak.max(high.source_a.peak);
@@ -893,8 +1273,8 @@ impl ValidTree {
                     self.input.rails[o].name.clone()
                 }
             });
-        let runtime_h = match (s.capacity_mah, s.capacity_wh) {
-            (Some(mah), _) if nom.source_a.avg > 0.0 => Some(mah / 1000.0 / nom.source_a.avg),
+        let runtime_h = match (s.capacity_ah, s.capacity_wh) {
+            (Some(ah), _) if nom.source_a.avg > 0.0 => Some(ah / nom.source_a.avg),
             (_, Some(wh)) if nom.source_w.avg > 0.0 => Some(wh / nom.source_w.avg),
             _ => None,
         };
@@ -907,16 +1287,41 @@ impl ValidTree {
             // Titles carry the rails' own names, so they are joined as typed (the shared
             // `titles_with` lowers them for the calculators' fixed titles).
             _ => format!(
-                "Fails on {}; first to fail: {}",
+                "{} {}; {}: {}",
+                if verdict == Status::Fail {
+                    "Fails on"
+                } else {
+                    "Works, but misses a wanted margin on"
+                },
                 checks
                     .iter()
-                    .filter(|c| c.status == Status::Fail)
+                    .filter(|c| c.status == verdict)
                     .map(|c| c.title.as_str())
                     .collect::<Vec<_>>()
                     .join(", "),
+                if verdict == Status::Fail {
+                    "first to fail"
+                } else {
+                    "first short of its margin"
+                },
                 first_failure.clone().unwrap_or_default()
             ),
         };
+        let checks = checks
+            .into_iter()
+            .zip(owners)
+            .map(|(c, o)| TreeCheck {
+                rail: if o == usize::MAX {
+                    s.name.clone()
+                } else {
+                    self.input.rails[o].name.clone()
+                },
+                id: c.id,
+                title: c.title,
+                status: c.status,
+                text: c.text,
+            })
+            .collect();
         TreeReport {
             verdict,
             summary,
@@ -937,7 +1342,22 @@ mod out {
         Thermal => "thermal",
         Rating => "rating",
         SourceLimit => "sourceLimit",
+        Duty => "duty",
+        OnTime => "onTime",
+        Saturation => "saturation",
     });
+
+    impl ToOut for TreeCheck {
+        fn to_out(&self) -> Out {
+            out_object! {
+                "rail": self.rail,
+                "id": self.id,
+                "title": self.title,
+                "status": self.status,
+                "text": self.text,
+            }
+        }
+    }
 
     impl ToOut for Cases {
         fn to_out(&self) -> Out {

@@ -58,11 +58,16 @@ pub enum QuantityKind {
     Tempco,
     /// A whole number of things (samples, a seed): no unit, no fraction, not negative.
     Count,
+    /// A battery's charge capacity in ampere-hours (the unit batteries are rated in; 1 Ah is
+    /// 3600 C, kept apart from [`QuantityKind::Charge`] so "7000 mAh" is never read as coulombs).
+    BatteryCharge,
+    /// Energy in watt-hours (the unit batteries are rated in; 1 Wh is 3600 J).
+    Energy,
 }
 
 impl QuantityKind {
     /// Every kind, in a fixed order.
-    pub const ALL: [QuantityKind; 15] = [
+    pub const ALL: [QuantityKind; 17] = [
         QuantityKind::Voltage,
         QuantityKind::Current,
         QuantityKind::Resistance,
@@ -78,6 +83,8 @@ impl QuantityKind {
         QuantityKind::Charge,
         QuantityKind::Tempco,
         QuantityKind::Count,
+        QuantityKind::BatteryCharge,
+        QuantityKind::Energy,
     ];
 
     /// The kind's name as used across the API (`"voltage"`, `"thermalResistance"`).
@@ -98,6 +105,8 @@ impl QuantityKind {
             QuantityKind::Charge => "charge",
             QuantityKind::Tempco => "tempco",
             QuantityKind::Count => "count",
+            QuantityKind::BatteryCharge => "batteryCharge",
+            QuantityKind::Energy => "energy",
         }
     }
 
@@ -124,6 +133,8 @@ impl QuantityKind {
             QuantityKind::Charge => "C",
             QuantityKind::Tempco => "ppm/K",
             QuantityKind::Count => "",
+            QuantityKind::BatteryCharge => "Ah",
+            QuantityKind::Energy => "Wh",
         }
     }
 
@@ -147,6 +158,8 @@ impl QuantityKind {
             QuantityKind::Charge => &["C"],
             QuantityKind::Tempco => &["ppm/K", "ppm/°C", "ppm/℃", "ppm/C", "ppm"],
             QuantityKind::Count => &[],
+            QuantityKind::BatteryCharge => &["Ah"],
+            QuantityKind::Energy => &["Wh"],
         }
     }
 
@@ -193,6 +206,8 @@ impl QuantityKind {
             QuantityKind::Charge => "a charge",
             QuantityKind::Tempco => "a temperature coefficient",
             QuantityKind::Count => "a whole number",
+            QuantityKind::BatteryCharge => "a battery capacity",
+            QuantityKind::Energy => "an energy",
         }
     }
 
@@ -214,6 +229,8 @@ impl QuantityKind {
             QuantityKind::Charge => "8 nC or 12n",
             QuantityKind::Tempco => "100 ppm/K or 25",
             QuantityKind::Count => "10000 or 100k",
+            QuantityKind::BatteryCharge => "7000 mAh or 7 Ah",
+            QuantityKind::Energy => "84 Wh or 500 mWh",
         }
     }
 }

@@ -318,13 +318,14 @@ fn tree_reads_its_lists_and_refuses_a_newer_version() {
     };
     let x = read(entries(1.0)).expect("reads");
     assert_eq!(x.source.name, "Battery");
-    assert_eq!(x.source.capacity_mah, Some(7000.0));
+    // Version 1 gave the capacity in mAh; it is read as ampere-hours.
+    assert_eq!(x.source.capacity_ah, Some(7.0));
     assert_eq!(x.rails[0].kind, RailKind::Linear);
     assert_eq!(
         (x.loads[0].typ_a, x.loads[0].peak_a),
         (Some(0.03), Some(0.25))
     );
-    assert_eq!(read(entries(2.0)).unwrap_err().field, "version");
+    assert_eq!(read(entries(3.0)).unwrap_err().field, "version");
     let mut no_name = entries(1.0);
     no_name[3].1 = L(vec![vec![("parent", T("Battery")), ("kind", T("switch"))]]);
     assert_eq!(read(no_name).unwrap_err().field, "rails[0].name");

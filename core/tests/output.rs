@@ -299,9 +299,6 @@ fn comparison_reports_are_the_same_document() {
 #[test]
 fn tree_reports_are_the_same_document() {
     let rail = |name: &str, parent: &str, kind, vout| RailSpec {
-        name: String::from(name),
-        parent: String::from(parent),
-        kind,
         vout,
         efficiency_pct: Some(90.0),
         iq: Some(1e-4),
@@ -310,6 +307,8 @@ fn tree_reports_are_the_same_document() {
         theta_ja: Some(80.0),
         tj_max: Some(125.0),
         rated_a: Some(1.0),
+        headroom_margin_v: Some(0.5),
+        ..RailSpec::new(name, parent, kind)
     };
     let input = TreeInput {
         source: SourceSpec {
@@ -317,7 +316,7 @@ fn tree_reports_are_the_same_document() {
             v_min: 10.8,
             v_nom: 12.0,
             v_max: 14.4,
-            capacity_mah: Some(7000.0),
+            capacity_ah: Some(7.0),
             capacity_wh: None,
             current_limit_a: Some(0.05),
         },

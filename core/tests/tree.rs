@@ -5,6 +5,8 @@
 //! alternation stops at 1e-12 per current).
 
 use proptest::prelude::*;
+use railnote_core::linear::{self, DropoutModel, LinearInput};
+use railnote_core::switching::{self, CornerLabel, LightLoad, Rectifier, SwitchingInput, Topology};
 use railnote_core::tree::{
     check_tree, CheckId, LoadSpec, RailKind, RailSpec, SourceSpec, TreeInput, TreeReport,
 };
@@ -29,19 +31,7 @@ fn near(got: f64, want: f64, rel: f64, what: &str) {
 }
 
 fn rail(name: &str, parent: &str, kind: RailKind) -> RailSpec {
-    RailSpec {
-        name: name.into(),
-        parent: parent.into(),
-        kind,
-        vout: None,
-        efficiency_pct: None,
-        iq: None,
-        dropout_v: None,
-        r_on: None,
-        theta_ja: None,
-        tj_max: None,
-        rated_a: None,
-    }
+    RailSpec::new(name, parent, kind)
 }
 
 fn load(name: &str, on: &str, typ: f64, peak: f64) -> LoadSpec {
@@ -68,7 +58,7 @@ fn board() -> TreeInput {
             v_min: 10.8,
             v_nom: 12.0,
             v_max: 14.4,
-            capacity_mah: Some(7000.0),
+            capacity_ah: Some(7.0),
             capacity_wh: None,
             current_limit_a: Some(2.0),
         },
@@ -187,7 +177,7 @@ fn a_switch_with_a_power_load_meets_its_closed_form() {
             v_min: 5.0,
             v_nom: 5.0,
             v_max: 5.0,
-            capacity_mah: None,
+            capacity_ah: None,
             capacity_wh: Some(10.0),
             current_limit_a: None,
         },
@@ -294,7 +284,7 @@ prop_compose! {
     /// A random valid tree: each rail hangs from the source or an earlier rail, linear rails
     /// below their parent's voltage, loads anywhere.
     fn random_tree()(
-        kinds in proptest::collection::vec((0u8..3, 0.0f64..1.0, 0.05f64..1.0, 0.0f64..1.0), 1..12),
+        kinds in proptest::collection::vec((0u8..5, 0.0f64..1.0, 0.05f64..1.0, 0.0f64..1.0), 1..12),
         loads in proptest::collection::vec((0.0f64..1.0, 0.0f64..0.5, 0.0f64..1.0, any::<bool>(), 0.0f64..100.0), 1..20),
         vs in 3.0f64..30.0,
     ) -> TreeInput {
@@ -307,7 +297,23 @@ prop_compose! {
             let spec = match kind {
                 0 => RailSpec { vout: Some(from * frac * 0.9), dropout_v: Some(0.2 * x), iq: Some(1e-4 * x), theta_ja: Some(50.0), ..rail(&name, &pname, RailKind::Linear) },
                 1 => RailSpec { vout: Some(from * (0.2 + 2.0 * frac)), efficiency_pct: Some(60.0 + 39.0 * x), iq: Some(1e-3 * x), ..rail(&name, &pname, RailKind::Switching) },
-                _ => RailSpec { r_on: Some(0.5 * x), ..rail(&name, &pname, RailKind::Switch) },
+                2 => RailSpec { r_on: Some(0.5 * x), ..rail(&name, &pname, RailKind::Switch) },
+                // A buck from its parts (the switching estimate), below its parent.
+                3 => RailSpec {
+                    vout: Some(from * frac * 0.9),
+                    estimate: Some(SwitchingInput { vout: from * frac * 0.9, dcr: 0.2 * x, ..buck_parts() }),
+                    ..rail(&name, &pname, RailKind::Switching)
+                },
+                // A MOS-pass LDO (resistive dropout) with load-dependent ground current.
+                _ => RailSpec {
+                    vout: Some(from * frac * 0.9),
+                    dropout_model: Some(DropoutModel::Resistive),
+                    dropout_v: Some(0.3 * x),
+                    dropout_at_a: Some(0.5),
+                    gnd_pct: Some(5.0 * x),
+                    iq: Some(1e-4 * x),
+                    ..rail(&name, &pname, RailKind::Linear)
+                },
             };
             highest.push(spec.vout.unwrap_or(from));
             rails.push(spec);
@@ -322,7 +328,7 @@ prop_compose! {
             l
         }).collect();
         TreeInput {
-            source: SourceSpec { name: "Source".into(), v_min: vs * 0.9, v_nom: vs, v_max: vs * 1.2, capacity_mah: Some(1000.0), capacity_wh: None, current_limit_a: None },
+            source: SourceSpec { name: "Source".into(), v_min: vs * 0.9, v_nom: vs, v_max: vs * 1.2, capacity_ah: Some(1.0), capacity_wh: None, current_limit_a: None },
             rails,
             loads,
             ta_max: 40.0,
@@ -334,6 +340,9 @@ proptest! {
     #[test]
     fn source_power_is_load_power_plus_every_loss(tree in random_tree()) {
         let r = check(&tree).unwrap();
+        for c in &r.checks {
+            prop_assert!(!c.text.contains("NaN") && !c.text.contains("inf"), "{}", c.text);
+        }
         for c in &r.corners {
             for (src, loads, losses) in [
                 (c.source_w.typ, c.loads_w.typ, c.losses_w.typ),
@@ -346,4 +355,245 @@ proptest! {
             }
         }
     }
+}
+
+/// The demo's 5 V buck from its parts (invented values, the switching page's demo): synchronous,
+/// 500 kHz, 22 µH. The input voltages and the load are the tree's to give (placeholders here).
+fn buck_parts() -> SwitchingInput {
+    SwitchingInput {
+        topology: Topology::Buck,
+        rectifier: Rectifier::Synchronous,
+        light_load: LightLoad::DiscontinuousAllowed,
+        vin_min: 1.0,
+        vin_nom: 1.0,
+        vin_max: 1.0,
+        vout: 5.0,
+        iout: 1.0,
+        fsw: 500e3,
+        inductance: Some(22e-6),
+        ripple_ratio_pct: None,
+        main_rds_on: 0.1,
+        rect_rds_on: Some(0.05),
+        diode_vf: None,
+        rise_time: 10e-9,
+        fall_time: 10e-9,
+        main_gate_charge: 5e-9,
+        rect_gate_charge: Some(5e-9),
+        drive_v: 5.0,
+        dead_time: Some(20e-9),
+        body_diode_vf: Some(0.7),
+        coss_charge: None,
+        coss: Some(200e-12),
+        dcr: 0.05,
+        core_loss: 0.01,
+        iq: 1e-3,
+        cout: 22e-6,
+        esr: 0.01,
+        min_on_time: 100e-9,
+        max_duty_pct: 90.0,
+        isat: Some(1.5),
+    }
+}
+
+#[test]
+fn a_linear_rail_is_graded_by_the_linear_check_itself() {
+    // The 3.3 V LDO with a 2 % output tolerance, 1 % of its load as extra ground current and a
+    // 1.5 V headroom margin: the tree must give exactly the linear check's checks for the inputs
+    // and loads the tree found (5 V from the buck at every corner, 290 mA peak, 70.05 mA typical
+    // out of the 3.3 V rail at the nominal voltage).
+    let mut input = board();
+    let ldo = &mut input.rails[1];
+    ldo.gnd_pct = Some(1.0);
+    ldo.vout_tol_pct = Some(2.0);
+    ldo.headroom_margin_v = Some(1.5);
+    ldo.thermal_margin_c = Some(10.0);
+    let r = check(&input).unwrap();
+    let nom = &r.corners[1];
+    let out = nom.rails[1].iout_a;
+    // Ground current: I_in = I_out·(1 + 1 %) + I_q (the linear check's relation).
+    near(
+        nom.rails[1].iin_a.typ,
+        out.typ * 1.01 + 50e-6,
+        1e-12,
+        "3V3 input current",
+    );
+    let direct = linear::check(&LinearInput {
+        vin_min: 5.0,
+        vin_nom: 5.0,
+        vin_max: 5.0,
+        vout: 3.3,
+        vout_tol_pct: 2.0,
+        iout_max: out.peak,
+        iout_typ: out.typ,
+        iq: 50e-6,
+        gnd_pct: 1.0,
+        dropout_model: DropoutModel::Constant,
+        dropout_v: 0.3,
+        dropout_at_a: 1.0,
+        rated_a: 0.3,
+        theta_ja: 100.0,
+        ta_max: 60.0,
+        tj_max: 125.0,
+        headroom_margin_v: 1.5,
+        thermal_margin_c: 10.0,
+        eff_min_pct: None,
+        input_budget_a: None,
+    })
+    .unwrap();
+    let mine: Vec<_> = r.checks.iter().filter(|c| c.rail == "3V3 LDO").collect();
+    let ids = [CheckId::Headroom, CheckId::Thermal, CheckId::Rating];
+    assert_eq!(mine.len(), 3, "{mine:?}");
+    for (c, (d, id)) in mine.iter().zip(direct.checks.iter().zip(ids)) {
+        assert_eq!((c.id, c.status, &c.text), (id, d.status, &d.text));
+    }
+    // Headroom 5 − 3.366 − 0.3 = 1.334 V is short of the 1.5 V margin: marginal, not failing.
+    assert_eq!(mine[0].status, Status::Marginal, "{}", mine[0].text);
+    assert_eq!(r.verdict, Status::Marginal);
+    assert_eq!(r.first_failure.as_deref(), Some("3V3 LDO"));
+    assert!(
+        r.summary
+            .contains("misses a wanted margin on 3V3 LDO headroom"),
+        "{}",
+        r.summary
+    );
+    // The 1.8 V LDO has no θJA and no rating: only its headroom is checked.
+    let ids: Vec<_> = r
+        .checks
+        .iter()
+        .filter(|c| c.rail == "1V8 LDO")
+        .map(|c| c.id)
+        .collect();
+    assert_eq!(ids, [CheckId::Headroom]);
+}
+
+#[test]
+fn a_resistive_dropout_follows_the_load_into_dropout() {
+    // A MOS-pass LDO rated 0.5 V at 1 A (0.5 Ω) set to 3.3 V, fed 3.5 V, with 0.8 A: it needs
+    // 3.3 + 0.4 = 3.7 V, so it sits in dropout at V_out = 3.5 − 0.5·0.8 = 3.1 V (R·I of the
+    // resistive model, as on the linear page), and its headroom check fails.
+    let input = TreeInput {
+        source: SourceSpec {
+            name: "Bus".into(),
+            v_min: 3.5,
+            v_nom: 3.5,
+            v_max: 3.5,
+            capacity_ah: None,
+            capacity_wh: None,
+            current_limit_a: None,
+        },
+        rails: vec![RailSpec {
+            vout: Some(3.3),
+            dropout_model: Some(DropoutModel::Resistive),
+            dropout_v: Some(0.5),
+            dropout_at_a: Some(1.0),
+            ..rail("LDO", "Bus", RailKind::Linear)
+        }],
+        loads: vec![load("Load", "LDO", 0.8, 0.8)],
+        ta_max: 25.0,
+    };
+    let r = check(&input).unwrap();
+    near(r.corners[1].rails[0].vout, 3.1, 1e-12, "output in dropout");
+    assert_eq!(r.checks[0].status, Status::Fail, "{}", r.checks[0].text);
+    // At 0.3 A it needs 3.45 V and regulates.
+    let mut light = input.clone();
+    light.loads[0] = load("Load", "LDO", 0.3, 0.3);
+    let r = check(&light).unwrap();
+    near(r.corners[1].rails[0].vout, 3.3, 1e-12, "output regulating");
+    assert_eq!(r.checks[0].status, Status::Pass, "{}", r.checks[0].text);
+    // Without the rating current the resistive model has no resistance.
+    let mut bad = input;
+    bad.rails[0].dropout_at_a = None;
+    let e = check(&bad).unwrap_err();
+    assert!(e.message.starts_with("Rail \"LDO\""), "{}", e.message);
+}
+
+#[test]
+fn a_switching_rail_estimated_from_its_parts_draws_what_the_estimate_says() {
+    // The buck from its parts instead of 88 %: at every source voltage its input current is the
+    // switching estimate's P_in / V_in at that V_in and the tree's load, and its checks are the
+    // switching estimate's own for the tree's input range and peak load.
+    let mut input = board();
+    input.rails[2].efficiency_pct = None;
+    input.rails[2].estimate = Some(buck_parts());
+    let r = check(&input).unwrap();
+    for (k, label) in [CornerLabel::Min, CornerLabel::Nom, CornerLabel::Max]
+        .into_iter()
+        .enumerate()
+    {
+        let c = &r.corners[k];
+        let buck = &c.rails[2];
+        let mut whole = buck_parts();
+        (whole.vin_min, whole.vin_nom, whole.vin_max) = (10.8, 12.0, 14.4);
+        whole.iout = buck.iout_a.peak;
+        let valid = whole.validate().unwrap();
+        for (iout, iin) in [
+            (buck.iout_a.typ, buck.iin_a.typ),
+            (buck.iout_a.peak, buck.iin_a.peak),
+            (buck.iout_a.avg, buck.iin_a.avg),
+        ] {
+            let point = valid.point(label, c.vin, iout);
+            near(iin, point.input_current_a, 1e-9, "buck input current");
+        }
+        // Energy still balances with the estimate's losses.
+        near(
+            c.source_w.avg,
+            c.loads_w.avg + c.losses_w.avg,
+            1e-9,
+            "energy balance",
+        );
+    }
+    let mut whole = buck_parts();
+    (whole.vin_min, whole.vin_nom, whole.vin_max) = (10.8, 12.0, 14.4);
+    whole.iout = r
+        .corners
+        .iter()
+        .map(|c| c.rails[2].iout_a.peak)
+        .fold(0.0, f64::max);
+    let direct = switching::check_switching(&whole).unwrap();
+    let mine: Vec<_> = r.checks.iter().filter(|c| c.rail == "5V0 buck").collect();
+    let want = [
+        CheckId::Duty,
+        CheckId::OnTime,
+        CheckId::Saturation,
+        CheckId::Rating,
+    ];
+    assert_eq!(mine.iter().map(|c| c.id).collect::<Vec<_>>(), want);
+    for (c, d) in mine.iter().zip(&direct.checks) {
+        assert_eq!((c.status, &c.text), (d.status, &d.text));
+    }
+    // A buck whose parent cannot reach its output is refused by name; one without L too.
+    let mut high = board();
+    high.rails[2].vout = Some(15.0);
+    high.rails[2].estimate = Some(buck_parts());
+    let e = check(&high).unwrap_err();
+    assert!(e.message.contains("a buck cannot give"), "{}", e.message);
+    let mut no_l = board();
+    no_l.rails[2].estimate = Some(SwitchingInput {
+        inductance: None,
+        ..buck_parts()
+    });
+    let e = check(&no_l).unwrap_err();
+    assert!(e.message.contains("inductance"), "{}", e.message);
+}
+
+#[test]
+fn checks_name_their_rail_and_capacity_in_watt_hours_gives_runtime() {
+    let mut input = board();
+    input.source.capacity_ah = None;
+    input.source.capacity_wh = Some(84.0);
+    let r = check(&input).unwrap();
+    // Runtime from energy: 84 Wh over the average source power at the nominal voltage.
+    near(
+        r.runtime_h.unwrap(),
+        84.0 / r.corners[1].source_w.avg,
+        1e-12,
+        "runtime from Wh",
+    );
+    for c in &r.checks {
+        assert!(c.title.starts_with(&c.rail), "{} / {}", c.rail, c.title);
+    }
+    assert!(r
+        .checks
+        .iter()
+        .any(|c| c.rail == "Battery" && c.id == CheckId::SourceLimit));
 }

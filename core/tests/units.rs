@@ -260,3 +260,25 @@ fn kinds_round_trip_by_name() {
     }
     assert_eq!(QuantityKind::from_name("volts"), None);
 }
+
+#[test]
+fn battery_capacity_in_ampere_hours_and_watt_hours() {
+    use QuantityKind::{BatteryCharge, Charge, Energy, Power};
+    // Batteries are rated in Ah and Wh (common practice); SI prefixes apply to both.
+    check("7000 mAh", BatteryCharge, Ok(7.0));
+    check("7 Ah", BatteryCharge, Ok(7.0));
+    check("7", BatteryCharge, Ok(7.0));
+    check("84 Wh", Energy, Ok(84.0));
+    check("500 mWh", Energy, Ok(0.5));
+    check("1.2 kWh", Energy, Ok(1200.0));
+    // Each kind refuses the other's unit, and neither is a coulomb or a watt.
+    check("84 Wh", Power, Err(ParseProblem::OtherKind(Energy)));
+    check("84 Wh", BatteryCharge, Err(ParseProblem::OtherKind(Energy)));
+    check(
+        "7000 mAh",
+        Charge,
+        Err(ParseProblem::OtherKind(BatteryCharge)),
+    );
+    assert_eq!(format_quantity(0.5, BatteryCharge, 3), "500 mAh");
+    assert_eq!(format_quantity(84.0, Energy, 3), "84.0 Wh");
+}

@@ -2,9 +2,10 @@
 // Pure functions, no DOM: tested in Node (tests/node/tree-doc.test.mjs).
 //
 // Two shapes, on purpose:
-// - The *document* (schema version 1) is exactly what checkTree reads: { version, taMax,
-//   sources: [{…}], rails: [{…}], loads: [{…}] }, numbers in SI units (percent as percent, mAh and
-//   Wh as plain numbers). Exported files and share links hold the document and nothing else, so a
+// - The *document* (schema version 2) is exactly what checkTree reads: { version, taMax,
+//   sources: [{…}], rails: [{…}], loads: [{…}] }, numbers in SI units (percent as percent, battery
+//   capacity in Ah and Wh, the units batteries are rated in). Version 1 documents (capacity in
+//   mAh, no per-rail linear details or switching parts) still open: migrate() brings them to 2. Exported files and share links hold the document and nothing else, so a
 //   file written by one railnote is read by checkTree with no translation and any key checkTree
 //   does not know is refused by name. Numbers go through JSON unchanged (JSON keeps every double
 //   exactly), so export → import is lossless.
@@ -22,7 +23,7 @@
 // state is a dozen numbers; a tree is a document.
 
 /** The schema version this module writes. */
-export const DOC_VERSION = 1;
+export const DOC_VERSION = 2;
 /** Largest document text accepted (a paste, a file, an inflated link): 1 MB. */
 export const MAX_DOC_CHARS = 1_000_000;
 /** checkTree's own limits: refused here already so a huge paste never builds a huge table. */
@@ -34,16 +35,49 @@ export const RAIL_KINDS = ['linear', 'switching', 'switch'];
 // Every key of the v1 document, with the engine's quantity kind for number keys (null for text).
 export const SOURCE_KEYS = {
   name: null, vMin: 'voltage', vNom: 'voltage', vMax: 'voltage',
-  capacityMah: 'count', capacityWh: 'power', currentLimitA: 'current',
+  capacityAh: 'batteryCharge', capacityWh: 'energy', currentLimitA: 'current',
+};
+/** Choices of a rail's text keys that are picked from a list (the kind is checked as before). */
+export const RAIL_CHOICES = {
+  dropoutModel: ['constant', 'resistive', 'classic'],
+  efficiencyFrom: ['fixed', 'estimate'],
+  topology: ['buck', 'boost', 'inverting'],
+  rectifier: ['synchronous', 'diode'],
+  lightLoad: ['discontinuousAllowed', 'forcedContinuous'],
+};
+/**
+ * A switching rail estimated from its parts carries the switching estimate's own keys (the
+ * switching page's inputs, less the input voltages and the load, which the tree gives, and
+ * the ripple ratio: the tree wants L itself).
+ */
+export const ESTIMATE_KEYS = {
+  topology: null, rectifier: null, lightLoad: null, fsw: 'frequency', inductance: 'inductance',
+  mainRdsOn: 'resistance', rectRdsOn: 'resistance', diodeVf: 'voltage', riseTime: 'time', fallTime: 'time',
+  mainGateCharge: 'charge', rectGateCharge: 'charge', driveV: 'voltage', deadTime: 'time',
+  bodyDiodeVf: 'voltage', cossCharge: 'charge', coss: 'capacitance', dcr: 'resistance', coreLoss: 'power',
+  cout: 'capacitance', esr: 'resistance', minOnTime: 'time', maxDutyPct: 'percent', isat: 'current',
+};
+/** A linear rail's details beyond its dropout: the linear rail check's own inputs. */
+export const LINEAR_KEYS = {
+  dropoutModel: null, dropoutAtA: 'current', gndPct: 'percent', voutTolPct: 'percent',
+  headroomMarginV: 'voltage', thermalMarginC: 'temperatureDifference',
 };
 export const RAIL_KEYS = {
-  name: null, parent: null, kind: null, vout: 'voltage', efficiencyPct: 'percent', iq: 'current',
+  name: null, parent: null, kind: null, vout: 'voltage', efficiencyFrom: null, efficiencyPct: 'percent', iq: 'current',
   dropoutV: 'voltage', rOn: 'resistance', thetaJa: 'thermalResistance', tjMax: 'temperature',
-  ratedA: 'current',
+  ratedA: 'current', ...LINEAR_KEYS, ...ESTIMATE_KEYS,
 };
+/** Version 1's keys, for reading old documents (migrate turns them into version 2's). */
+const V1_SOURCE_KEYS = { ...SOURCE_KEYS, capacityMah: 'count' };
+delete V1_SOURCE_KEYS.capacityAh;
 export const LOAD_KEYS = {
   name: null, rail: null, typA: 'current', peakA: 'current', typW: 'power', peakW: 'power',
   activityPct: 'percent', sleepA: 'current',
+};
+const V1_RAIL_KEYS = {
+  name: null, parent: null, kind: null, vout: 'voltage', efficiencyPct: 'percent', iq: 'current',
+  dropoutV: 'voltage', rOn: 'resistance', thetaJa: 'thermalResistance', tjMax: 'temperature',
+  ratedA: 'current',
 };
 const REQUIRED_TEXT = { sources: ['name'], rails: ['name', 'parent', 'kind'], loads: ['name', 'rail'] };
 const LIST_KEYS = { sources: SOURCE_KEYS, rails: RAIL_KEYS, loads: LOAD_KEYS };
@@ -59,9 +93,9 @@ export class DocError extends Error {
 /** The brief's logger board (invented demo data), as a document. */
 export function demoDoc() {
   return {
-    version: 1,
+    version: 2,
     taMax: 60,
-    sources: [{ name: 'Battery', vMin: 10.8, vNom: 12, vMax: 14.4, capacityMah: 7000 }],
+    sources: [{ name: 'Battery', vMin: 10.8, vNom: 12, vMax: 14.4, capacityAh: 7 }],
     rails: [
       { name: '5V0 buck', parent: 'Battery', kind: 'switching', vout: 5, efficiencyPct: 88, ratedA: 0.8 },
       { name: '3V3 LDO', parent: '5V0 buck', kind: 'linear', vout: 3.3, dropoutV: 0.3, iq: 50e-6, thetaJa: 100, tjMax: 125, ratedA: 0.3 },
@@ -84,7 +118,7 @@ export function demoState() {
   const load = (v) => ({ ...blank(LOAD_KEYS), ...v });
   return {
     taMax: '60 °C',
-    source: { ...blank(SOURCE_KEYS), name: 'Battery', vMin: '10.8 V', vNom: '12 V', vMax: '14.4 V', capacityMah: '7000' },
+    source: { ...blank(SOURCE_KEYS), name: 'Battery', vMin: '10.8 V', vNom: '12 V', vMax: '14.4 V', capacityAh: '7000 mAh' },
     rails: [
       rail({ name: '5V0 buck', parent: 'Battery', kind: 'switching', vout: '5 V', efficiencyPct: '88 %', ratedA: '800 mA' }),
       rail({ name: '3V3 LDO', parent: '5V0 buck', kind: 'linear', vout: '3.3 V', dropoutV: '300 mV', iq: '50 µA', thetaJa: '100 K/W', tjMax: '125 °C', ratedA: '300 mA' }),
@@ -115,10 +149,26 @@ export function migrate(doc) {
   if (v > DOC_VERSION) {
     throw new DocError('version', `this document is of schema version ${v}; this railnote reads version 1 and older`);
   }
-  const steps = [/* from1to2 goes here */];
+  const steps = [from1to2];
   let out = { ...doc, version: v };
   for (let from = v; from < DOC_VERSION; from++) out = steps[from - 1](out);
   return out;
+}
+
+/**
+ * Version 1 → 2: the charge capacity moves from `capacityMah` (mAh) to `capacityAh` (Ah), the
+ * unit the new capacity cell reads ("7000 mAh" or "7 Ah"); everything else is unchanged
+ * (version 2 only adds keys). The one arithmetic step in the page, a unit's decimal shift, done
+ * exactly as checkTree does it for a version 1 document it reads itself (mAh / 1000).
+ */
+function from1to2(doc) {
+  checkShape({ ...doc, version: 1 }, 1);
+  const sources = Array.isArray(doc.sources) ? doc.sources.map((s) => {
+    if (!isObject(s) || !('capacityMah' in s)) return s;
+    const { capacityMah, ...rest } = s;
+    return capacityMah === null ? rest : { ...rest, capacityAh: capacityMah / 1000 };
+  }) : doc.sources;
+  return { ...doc, version: 2, sources };
 }
 
 /**
@@ -126,13 +176,16 @@ export function migrate(doc) {
  * numbers, lists within checkTree's limits. Links between rails (parents, cycles, duplicates)
  * are checkTree's job. Returns the document, copied to plain data; throws DocError.
  */
-export function checkShape(doc) {
+export function checkShape(doc, version = DOC_VERSION) {
   const out = { version: doc.version };
   for (const k of Object.keys(doc)) {
     if (!['version', 'taMax', 'sources', 'rails', 'loads'].includes(k)) {
-      throw new DocError(k, 'this key is not part of a version 1 tree document (version, taMax, sources, rails, loads)');
+      throw new DocError(k, `this key is not part of a version ${version} tree document (version, taMax, sources, rails, loads)`);
     }
   }
+  const listKeys = version === 1
+    ? { sources: V1_SOURCE_KEYS, rails: V1_RAIL_KEYS, loads: LOAD_KEYS }
+    : LIST_KEYS;
   if (doc.taMax !== undefined) {
     if (typeof doc.taMax !== 'number' || !Number.isFinite(doc.taMax)) throw new DocError('taMax', 'expected a number (°C)');
     out.taMax = doc.taMax;
@@ -147,7 +200,7 @@ export function checkShape(doc) {
     out[list] = items.map((item, i) => {
       const at = `${list}[${i}]`;
       if (!isObject(item)) throw new DocError(at, 'expected an object');
-      const keys = LIST_KEYS[list];
+      const keys = listKeys[list];
       const copy = {};
       for (const [k, v] of Object.entries(item)) {
         if (!Object.prototype.hasOwnProperty.call(keys, k)) {
@@ -157,6 +210,9 @@ export function checkShape(doc) {
         if (keys[k] === null) {
           if (typeof v !== 'string') throw new DocError(`${at}.${k}`, 'expected text');
           if (v.length > 200) throw new DocError(`${at}.${k}`, 'longer than 200 characters');
+          if (list === 'rails' && RAIL_CHOICES[k] && !RAIL_CHOICES[k].includes(v)) {
+            throw new DocError(`${at}.${k}`, `expected one of ${RAIL_CHOICES[k].join(', ')}`);
+          }
         } else if (typeof v !== 'number' || !Number.isFinite(v)) {
           throw new DocError(`${at}.${k}`, 'expected a number');
         }
@@ -208,6 +264,22 @@ export function stateFromDoc(doc) {
     rails: (doc.rails || []).map((r) => row(r, RAIL_KEYS)),
     loads: (doc.loads || []).map((l) => row(l, LOAD_KEYS)),
   };
+}
+
+/**
+ * Whether a rail of this kind (and efficiency source) uses a key: cells it does not use are
+ * disabled on the page and left out of the document.
+ */
+export function railUses(rail, key) {
+  const kind = rail.kind;
+  const estimated = kind === 'switching' && rail.efficiencyFrom === 'estimate';
+  if (key in LINEAR_KEYS || key === 'dropoutV') return kind === 'linear';
+  if (key in ESTIMATE_KEYS) return estimated;
+  if (key === 'efficiencyFrom') return kind === 'switching';
+  if (key === 'efficiencyPct') return kind === 'switching' && !estimated;
+  if (key === 'vout' || key === 'iq') return kind === 'linear' || kind === 'switching';
+  if (key === 'rOn') return kind === 'switch';
+  return true;
 }
 
 /** An empty row of a list ('rails' or 'loads'), all cells blank; a rail is linear by default. */

@@ -19,8 +19,11 @@ import { ready } from './engine.js';
 import { h, copyText, reportEmbedHeight, createAnnouncer, formatWith, stampNow, VERDICT_WORDS } from './common.js';
 import {
   demoState, stateFromDoc, docFromState, sanitizeState, importJson, exportJson, shareUrl, decodeDoc,
-  codeFromHash, emptyRow, RAIL_KINDS, MAX_RAILS, MAX_LOADS,
+  codeFromHash, emptyRow, railUses, RAIL_KINDS, MAX_RAILS, MAX_LOADS, ESTIMATE_KEYS,
 } from './tree-doc.js';
+// The switching page's own field list (labels, units, link keys, starting values) for the parts
+// of a rail estimated from them; importing it also defines <railnote-switching>, unused here.
+import { FIELD_DEFS as SWITCHING_DEFS } from './switching-widget.js';
 
 const DRAFT_KEY = 'railnote.tree.draft';
 const SVG_NS = 'http://www.w3.org/2000/svg';
@@ -38,7 +41,7 @@ const SOURCE_COLUMNS = [
   { key: 'vMin', head: 'Lowest', unit: 'V' },
   { key: 'vNom', head: 'Nominal', unit: 'V' },
   { key: 'vMax', head: 'Highest', unit: 'V' },
-  { key: 'capacityMah', head: 'Capacity', unit: 'mAh' },
+  { key: 'capacityAh', head: 'Capacity', unit: 'Ah, mAh' },
   { key: 'capacityWh', head: 'or capacity', unit: 'Wh' },
   { key: 'currentLimitA', head: 'Current limit', unit: 'A' },
 ];
@@ -46,15 +49,31 @@ const RAIL_COLUMNS = [
   { key: 'name', head: 'Name', unit: '' },
   { key: 'parent', head: 'Fed from', unit: '' },
   { key: 'kind', head: 'Kind', unit: '' },
-  { key: 'vout', head: 'Output', unit: 'V', kinds: ['linear', 'switching'] },
-  { key: 'efficiencyPct', head: 'Efficiency', unit: '%', kinds: ['switching'] },
-  { key: 'iq', head: 'Quiescent', unit: 'A', kinds: ['linear', 'switching'] },
-  { key: 'dropoutV', head: 'Dropout', unit: 'V', kinds: ['linear'] },
-  { key: 'rOn', head: 'On-resistance', unit: 'Ω', kinds: ['switch'] },
+  { key: 'vout', head: 'Output', unit: 'V' },
+  { key: 'efficiencyFrom', head: 'Efficiency from', unit: '', options: [['fixed', 'a fixed figure'], ['estimate', 'its parts (estimate)']] },
+  { key: 'efficiencyPct', head: 'Efficiency', unit: '%' },
+  { key: 'iq', head: 'Quiescent', unit: 'A' },
+  { key: 'dropoutV', head: 'Dropout', unit: 'V' },
+  { key: 'rOn', head: 'On-resistance', unit: 'Ω' },
   { key: 'thetaJa', head: 'θJA', unit: 'K/W' },
   { key: 'tjMax', head: 'Junction limit', unit: '°C' },
   { key: 'ratedA', head: 'Rated', unit: 'A' },
 ];
+// A linear rail's further inputs of the linear rail check (blank: constant dropout, no extra
+// ground current, exact output, no margins wanted).
+const LINEAR_COLUMNS = [
+  { key: 'dropoutModel', head: 'Dropout model', unit: '', options: [['constant', 'constant (bipolar)'], ['resistive', 'scales with load (MOS)'], ['classic', 'classic 2 V (common practice)']] },
+  { key: 'dropoutAtA', head: 'Dropout rated at', unit: 'A' },
+  { key: 'gndPct', head: 'Ground current', unit: '% of load' },
+  { key: 'voutTolPct', head: 'Output tolerance', unit: '± %' },
+  { key: 'headroomMarginV', head: 'Headroom margin', unit: 'V' },
+  { key: 'thermalMarginC', head: 'Junction margin', unit: 'K' },
+];
+// A switching rail estimated from its parts: the switching page's fields for them.
+const ESTIMATE_COLUMNS = SWITCHING_DEFS.filter((d) => d.prop in ESTIMATE_KEYS).map((d) => ({
+  key: d.prop, head: d.label, unit: d.type === 'select' ? '' : d.unit, linkKey: d.key, def: d.def,
+  options: d.type === 'select' ? d.options.map((o) => [o.value, o.label]) : undefined,
+}));
 const LOAD_COLUMNS = [
   { key: 'name', head: 'Name', unit: '' },
   { key: 'rail', head: 'On rail', unit: '' },
@@ -77,13 +96,6 @@ function svg(tag, attrs = {}, ...children) {
 function subjectOf(message) {
   const m = /^(Rail|Load) "((?:[^"\\]|\\.)*)"/.exec(message || '');
   return m ? [m[1] === 'Rail' ? 'rails' : 'loads', m[2]] : null;
-}
-
-/** The name that begins a check's title, the longest that matches ("3V3 LDO headroom"). */
-function ownerOf(title, names) {
-  let best = null;
-  for (const n of names) if (title.startsWith(`${n} `) && (!best || n.length > best.length)) best = n;
-  return best;
 }
 
 /** Worst status of a list ('pass' < 'marginal' < 'fail'); null for none. */
@@ -231,12 +243,35 @@ export class TreeElement extends HTMLElement {
       h('fieldset', { class: 'rn-group' }, h('legend', {}, 'Rails'),
         h('p', { class: 'rn-group-note' }, 'Each rail is fed from the source or another rail, by name. Cells a kind does not use are marked “not used” and are not sent.'),
         railTable, listMsg('rails'),
-        h('button', { type: 'button', class: 'rn-add-rail', on: { click: () => this.addRow('rails') } }, 'Add a rail')),
+        h('button', { type: 'button', class: 'rn-add-rail', on: { click: () => this.addRow('rails') } }, 'Add a rail'),
+        this.detailTable('linear', 'Linear rails: the linear rail check’s further inputs', LINEAR_COLUMNS,
+          (r) => r.kind === 'linear',
+          'Blank cells: a constant dropout, no ground current beyond the quiescent one, an exact output and no margins wanted.'),
+        this.detailTable('estimate', 'Switching rails estimated from their parts', ESTIMATE_COLUMNS,
+          (r) => r.kind === 'switching' && r.efficiencyFrom === 'estimate',
+          'Each rail whose efficiency comes from its parts goes through the switching estimate at the input and load the tree gives it. New rows start from the switching page’s demo parts: replace them with yours.')),
       h('fieldset', { class: 'rn-group' }, h('legend', {}, 'Loads'),
         h('p', { class: 'rn-group-note' }, 'A load draws a current or a power (give one pair). Active: the share of time at the typical draw; asleep: the draw the rest of the time.'),
         loadTable, listMsg('loads'),
         h('button', { type: 'button', class: 'rn-add-load', on: { click: () => this.addRow('loads') } }, 'Add a load')));
     this.markUnused();
+  }
+
+  /** The rails that `wanted` picks, with more of their cells (same paths as the rails table). */
+  detailTable(id, caption, columns, wanted, note) {
+    const picked = this.state.rails.map((r, i) => [r, i]).filter(([r]) => wanted(r));
+    if (!picked.length) return null;
+    const head = h('tr', {}, h('th', { scope: 'col' }, 'Rail'),
+      columns.map((c) => h('th', { scope: 'col' }, c.head, c.unit ? h('span', { class: 'rn-unit' }, ` (${c.unit})`) : null)));
+    const body = picked.map(([r, i]) => h('tr', { 'data-row': i },
+      h('th', { scope: 'row' }, `${i + 1}: ${r.name || '(no name)'}`),
+      columns.map((c) => h('td', {}, this.cellNode(`rails[${i}].${c.key}`, r[c.key], c, `Rail ${i + 1}: ${c.head}${c.unit ? ` (${c.unit})` : ''}`)))));
+    return h('div', { class: 'rn-tree-detail', 'data-detail': id },
+      h('h3', { class: 'rn-group-note' }, caption),
+      h('p', { class: 'rn-group-note' }, note),
+      h('div', { class: 'rn-table-scroll' },
+        h('table', { class: 'rn-tree-table', 'data-table': id }, h('caption', { class: 'rn-visually-hidden' }, caption),
+          h('thead', {}, head), h('tbody', {}, body))));
   }
 
   table(id, caption, columns, rows, list, rowWord) {
@@ -267,6 +302,11 @@ export class TreeElement extends HTMLElement {
         input.prepend(h('option', { value: '', text: '— choose —' }));
         input.value = '';
       }
+    } else if (column.options) {
+      // A choice; blank text shows (and means) the first option.
+      input = h('select', { id, 'data-path': path, 'aria-label': label, 'aria-describedby': msgId },
+        column.options.map(([value, words]) => h('option', { value, text: words })));
+      if (column.options.some(([value]) => value === text)) input.value = text;
     } else {
       input = h('input', {
         id, type: 'text', autocomplete: 'off', spellcheck: 'false', 'data-path': path, 'aria-label': label,
@@ -274,7 +314,7 @@ export class TreeElement extends HTMLElement {
       });
       input.value = text || '';
     }
-    input.addEventListener(column.key === 'kind' ? 'change' : 'input', () => this.onEdit(path, input.value));
+    input.addEventListener(input.tagName === 'SELECT' ? 'change' : 'input', () => this.onEdit(path, input.value));
     const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
     const root = h('span', { class: `rn-field rn-cell${column.unit ? '' : ' rn-text-cell'}`, 'data-path': path, 'data-key': path }, input, message);
     this.cells.set(path, { input, message, root });
@@ -285,9 +325,9 @@ export class TreeElement extends HTMLElement {
   markUnused() {
     this.state.rails.forEach((r, i) => {
       for (const c of RAIL_COLUMNS) {
-        if (!c.kinds) continue;
         const cell = this.cells.get(`rails[${i}].${c.key}`);
-        const unused = !c.kinds.includes(r.kind);
+        if (!cell || c.key === 'name' || c.key === 'parent' || c.key === 'kind') continue;
+        const unused = !railUses(r, c.key);
         cell.input.disabled = unused;
         cell.input.placeholder = unused ? 'not used' : '';
         cell.root.classList.toggle('rn-unused', unused);
@@ -301,7 +341,15 @@ export class TreeElement extends HTMLElement {
     if (path === 'taMax') this.state.taMax = value;
     else if (m[1] === 'sources') this.state.source[m[3]] = value;
     else this.state[m[1]][Number(m[2])][m[3]] = value;
-    if (m[3] === 'kind') this.markUnused();
+    if (m[1] === 'rails' && (m[3] === 'kind' || m[3] === 'efficiencyFrom')) {
+      const rail = this.state.rails[Number(m[2])];
+      // Parts start from the switching page's demo, so the estimate computes at once.
+      if (railUses(rail, 'fsw')) for (const c of ESTIMATE_COLUMNS) if (!rail[c.key]) rail[c.key] = c.def || '';
+      // The detail tables show other rows now; rebuild them and keep the focus where it was.
+      this.buildTables();
+      const cell = this.cells.get(path);
+      if (cell && cell.input) cell.input.focus();
+    }
     this.saveDraft();
     this.compute();
   }
@@ -334,7 +382,7 @@ export class TreeElement extends HTMLElement {
   currentDoc() {
     const state = { ...this.state, rails: this.state.rails.map((r) => {
       const copy = { ...r };
-      for (const c of RAIL_COLUMNS) if (c.kinds && !c.kinds.includes(r.kind)) copy[c.key] = '';
+      for (const k of Object.keys(copy)) if (!railUses(r, k)) copy[k] = '';
       return copy;
     }) };
     return docFromState(state, (text, kind) => this.api.parseQuantity(text, kind));
@@ -419,10 +467,7 @@ export class TreeElement extends HTMLElement {
   railVerdicts(r) {
     const names = [this.doc.sources[0].name, ...this.doc.rails.map((x) => x.name)];
     const by = new Map(names.map((n) => [n, []]));
-    for (const c of r.checks) {
-      const owner = ownerOf(c.title, names);
-      if (owner) by.get(owner).push(c);
-    }
+    for (const c of r.checks) if (by.has(c.rail)) by.get(c.rail).push(c);
     return by;
   }
 
@@ -535,14 +580,24 @@ export class TreeElement extends HTMLElement {
       put('vin-min', lo.vin); put('vin-nom', nom.vin); put('vin-max', hi.vin);
       put('vout', rail.vout);
       put('iout-max', peak); put('iout-typ', nom.ioutA.typ);
-      put('dropout-model', 'constant'); put('dropout', rail.dropoutV);
-      put('iq', rail.iq === undefined ? 0 : rail.iq); put('gnd', 0);
+      // What the tree checked with: blank details are the tree's defaults, sent as such.
+      const or = (v, d) => (v === undefined ? d : v);
+      put('dropout-model', or(rail.dropoutModel, 'constant')); put('dropout', or(rail.dropoutV, 0));
+      put('dropout-at', rail.dropoutAtA);
+      put('iq', or(rail.iq, 0)); put('gnd', or(rail.gndPct, 0)); put('vout-tol', or(rail.voutTolPct, 0));
+      put('headroom-margin', or(rail.headroomMarginV, 0)); put('thermal-margin', or(rail.thermalMarginC, 0));
       put('rated', rail.ratedA); put('theta-ja', rail.thetaJa);
       put('ta-max', this.doc.taMax); put('tj-max', rail.tjMax);
     } else if (rail.kind === 'switching') {
       page = 'switching.html';
       put('vin-min', lo.vin); put('vin-nom', nom.vin); put('vin-max', hi.vin);
       put('vout', rail.vout); put('iout', peak);
+      // A rail estimated from its parts takes them along (the tree wants L, not a ripple ratio).
+      if (rail.efficiencyFrom === 'estimate') {
+        put('iq', rail.iq === undefined ? 0 : rail.iq);
+        for (const c of ESTIMATE_COLUMNS) put(c.linkKey, rail[c.key]);
+        p.set('ripple-ratio', '');
+      }
     } else {
       return h('span', { class: 'rn-note' }, 'a plain switch: its drop is I·R_on, no calculator page');
     }

@@ -15,7 +15,7 @@ const FIXTURE = path.resolve(path.dirname(new URL(import.meta.url).pathname), '.
 // document those cells must give (the engine parses; these are the numbers the text means).
 const TYPED = {
   taMax: '60 °C',
-  source: { name: 'Battery', vMin: '10.8 V', vNom: '12 V', vMax: '14.4 V', capacityMah: '7000' },
+  source: { name: 'Battery', vMin: '10.8 V', vNom: '12 V', vMax: '14.4 V', capacityAh: '7000 mAh' },
   rails: [
     { name: '5V0 buck', parent: 'Battery', kind: 'switching', vout: '5.0 V', efficiencyPct: '88 %', ratedA: '0.8 A' },
     { name: '3V3 LDO', parent: '5V0 buck', kind: 'linear', vout: '3V3', dropoutV: '300 mV', iq: '50 µA', thetaJa: '100 K/W', tjMax: '125 °C', ratedA: '300 mA' },
@@ -27,8 +27,8 @@ const TYPED = {
   ],
 };
 const EXPECTED_DOC = {
-  version: 1, taMax: 60,
-  sources: [{ name: 'Battery', vMin: 10.8, vNom: 12, vMax: 14.4, capacityMah: 7000 }],
+  version: 2, taMax: 60,
+  sources: [{ name: 'Battery', vMin: 10.8, vNom: 12, vMax: 14.4, capacityAh: 7 }],
   rails: [
     { name: '5V0 buck', parent: 'Battery', kind: 'switching', vout: 5, efficiencyPct: 88, ratedA: 0.8 },
     { name: '3V3 LDO', parent: '5V0 buck', kind: 'linear', vout: 3.3, dropoutV: 0.3, iq: 50e-6, thetaJa: 100, tjMax: 125, ratedA: 0.3 },
@@ -66,7 +66,7 @@ async function typeCells(page, prefix, values) {
 async function buildByHand(page) {
   // Empty the tree: remove every rail and load, clear the source.
   while (await page.locator(`${TAG} button.rn-remove`).count()) await page.locator(`${TAG} button.rn-remove`).first().click();
-  for (const k of ['name', 'vMin', 'vNom', 'vMax', 'capacityMah', 'capacityWh', 'currentLimitA']) await cell(page, `sources[0].${k}`).fill('');
+  for (const k of ['name', 'vMin', 'vNom', 'vMax', 'capacityAh', 'capacityWh', 'currentLimitA']) await cell(page, `sources[0].${k}`).fill('');
   await cell(page, 'taMax').fill('');
   assert.equal(await page.locator(TAG).getAttribute('data-state'), 'error', 'an empty source is refused');
   await cell(page, 'taMax').fill(TYPED.taMax);
@@ -216,11 +216,16 @@ test('export downloads the document; import (file and paste) opens it', async ()
   assert.equal(download.suggestedFilename(), 'rail-tree.json');
   const exported = JSON.parse(fs.readFileSync(await download.path(), 'utf8'));
   assert.deepStrictEqual(exported, await page.locator(TAG).evaluate((el) => el.doc));
-  assert.equal(exported.version, 1);
+  assert.equal(exported.version, 2);
 
   const fixture = JSON.parse(fs.readFileSync(FIXTURE, 'utf8'));
   await settledAfter(page, () => page.locator(`${TAG} input[type="file"]`).setInputFiles(FIXTURE), 'ready');
-  assert.deepStrictEqual(await page.locator(TAG).evaluate((el) => el.doc), fixture, 'the stored v1 file opens as it is');
+  // The stored version 1 file opens, migrated: 7000 mAh is now 7 Ah, nothing else changed, and
+  // every number equals checkTree reading the version 1 file as it is.
+  const { capacityMah, ...source } = fixture.sources[0];
+  assert.equal(capacityMah, 7000);
+  assert.deepStrictEqual(await page.locator(TAG).evaluate((el) => el.doc), { ...fixture, version: 2, sources: [{ ...source, capacityAh: 7 }] }, 'the stored v1 file opens');
+  assert.equal(await cell(page, 'sources[0].capacityAh').inputValue(), '7');
   assertShown(await shownAndExpected(page, fixture));
   assert.equal(await page.locator(`${TAG} .rn-tree-rail`).count(), 4, 'four rails drawn');
 
@@ -299,8 +304,8 @@ test('a rail links to its calculator with its numbers from the tree', async () =
   assert.equal(Number(q['vin-max']), r.corners[2].rails[1].vin);
   assert.equal(Number(q['iout-max']), Math.max(...r.corners.map((c) => c.rails[1].ioutA.peak)));
   assert.equal(Number(q['iout-typ']), r.corners[1].rails[1].ioutA.typ);
-  assert.deepEqual([q.vout, q.dropout, q['dropout-model'], q.iq, q.gnd, q['theta-ja'], q['ta-max'], q['tj-max'], q.rated],
-    ['3.3', '0.3', 'constant', '0.00005', '0', '100', '60', '125', '0.3']);
+  assert.deepEqual([q.vout, q.dropout, q['dropout-model'], q.iq, q.gnd, q['vout-tol'], q['headroom-margin'], q['thermal-margin'], q['theta-ja'], q['ta-max'], q['tj-max'], q.rated],
+    ['3.3', '0.3', 'constant', '0.00005', '0', '0', '0', '0', '100', '60', '125', '0.3']);
   await page.locator(`${TAG} a[data-rail-link="1"]`).click();
   assert.equal(await settled(page, 'ready', 'railnote-linear'), 'ready');
   const lin = await page.locator('railnote-linear').evaluate((el) => ({ v: el.querySelector('.rn-field[data-key="vin-min"] input').value, out: el.querySelector('.rn-field[data-key="iout-max"] input').value }));
@@ -314,6 +319,61 @@ test('a rail links to its calculator with its numbers from the tree', async () =
   assert.equal(Number(sw.searchParams.get('iout')), Math.max(...r.corners.map((c) => c.rails[0].ioutA.peak)));
   await page.goto(sw.href);
   assert.equal(await settled(page, 'ready', 'railnote-switching'), 'ready', 'the switching page computes the carried rail');
+  assert.deepEqual(problems, []);
+  assertSameOrigin(requests);
+  await context.close();
+});
+
+test('linear details go through the linear check, a buck can be estimated from its parts, and capacity takes Wh', async () => {
+  const { context, page, requests, problems } = await open(browser);
+  await page.goto(url('tree.html'));
+  await settled(page, 'ready', TAG);
+  // The 3.3 V LDO with a 2 V headroom margin: it regulates with 1.40 V to spare, short of 2 V,
+  // so the linear check calls it marginal, and so does the tree.
+  assert.equal(await page.locator(`${TAG} [data-detail="linear"] tbody tr`).count(), 2, 'both LDOs in the linear details');
+  await settledAfter(page, () => cell(page, 'rails[1].headroomMarginV').fill('2 V'), 'ready');
+  let r = await page.locator(TAG).evaluate((el) => el.result);
+  assert.equal(r.verdict, 'marginal');
+  assert.equal(r.firstFailure, '3V3 LDO');
+  const head = r.checks.find((c) => c.rail === '3V3 LDO' && c.id === 'headroom');
+  assert.equal(head.status, 'marginal');
+  assert.match(await page.locator(`${TAG} [data-out-table="rails"] tr[data-rail="1"] [data-out="verdict"]`).textContent(), /marginal/i);
+  const linear = new URL(await page.locator(`${TAG} a[data-rail-link="1"]`).getAttribute('href'), url('tree.html'));
+  assert.equal(linear.searchParams.get('headroom-margin'), '2');
+  await page.goto(linear.href);
+  await settled(page, 'ready', 'railnote-linear');
+  const onLinear = await page.locator('railnote-linear').evaluate((el) => el.result.checks.find((c) => c.id === 'headroom'));
+  assert.deepEqual([onLinear.status, onLinear.text], [head.status, head.text], 'the linear page grades the carried rail as the tree did');
+  await page.goBack();
+  await settled(page, 'ready', TAG);
+
+  // The buck from its parts: the parts table appears, prefilled from the switching page's demo,
+  // and the buck's input current is the switching estimate's (checkTree in the page on the doc).
+  await settledAfter(page, () => cell(page, 'rails[0].efficiencyFrom').selectOption('estimate'), 'ready');
+  assert.equal(await page.locator(`${TAG} [data-detail="estimate"] tbody tr`).count(), 1);
+  assert.equal(await cell(page, 'rails[0].fsw').inputValue(), '500 kHz');
+  assert.equal(await cell(page, 'rails[0].efficiencyPct').isDisabled(), true, 'a fixed efficiency is not used now');
+  const doc = await page.locator(TAG).evaluate((el) => el.doc);
+  assert.equal(doc.rails[0].efficiencyFrom, 'estimate');
+  assert.equal(doc.rails[0].efficiencyPct, undefined);
+  assert.equal(doc.rails[0].fsw, 500e3);
+  assertShown(await shownAndExpected(page, doc));
+  r = await page.locator(TAG).evaluate((el) => el.result);
+  assert.deepEqual(r.checks.filter((c) => c.rail === '5V0 buck').map((c) => c.id), ['duty', 'onTime', 'saturation', 'rating']);
+  // A bad part is named at its cell, and fixing it computes again.
+  await settledAfter(page, () => cell(page, 'rails[0].fsw').fill('500 kV'), 'error');
+  assert.match(await cellMsg(page, 'rails[0].fsw').textContent(), /voltage/);
+  await settledAfter(page, () => cell(page, 'rails[0].fsw').fill('400 kHz'), 'ready');
+  const sw = new URL(await page.locator(`${TAG} a[data-rail-link="0"]`).getAttribute('href'), url('tree.html'));
+  assert.deepEqual([sw.searchParams.get('fsw'), sw.searchParams.get('inductance'), sw.searchParams.get('topology')], ['400000', String(doc.rails[0].inductance), 'buck']);
+
+  // Capacity in watt-hours: 84 Wh over the average source power at 12 V.
+  await settledAfter(page, () => cell(page, 'sources[0].capacityAh').fill(''), 'ready');
+  await settledAfter(page, () => cell(page, 'sources[0].capacityWh').fill('84 Wh'), 'ready');
+  r = await page.locator(TAG).evaluate((el) => el.result);
+  assert.ok(Math.abs(r.runtimeH - 84 / r.corners[1].sourceW.avg) <= 1e-12 * r.runtimeH);
+  await settledAfter(page, () => cell(page, 'sources[0].capacityWh').fill('84 W'), 'error');
+  assert.match(await cellMsg(page, 'sources[0].capacityWh').textContent(), /energy/);
   assert.deepEqual(problems, []);
   assertSameOrigin(requests);
   await context.close();

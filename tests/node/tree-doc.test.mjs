@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { initSync, parseQuantity, checkTree } from '../../site/pkg/railnote.js';
 import {
   DocError, MAX_DOC_CHARS, demoDoc, demoState, migrate, importJson, exportJson, stateFromDoc, docFromState,
-  sanitizeState, encodeDoc, decodeDoc, shareUrl, codeFromHash, emptyRow,
+  sanitizeState, encodeDoc, decodeDoc, shareUrl, codeFromHash, emptyRow, RAIL_CHOICES,
 } from '../../site/js/tree-doc.js';
 
 initSync({ module: readFileSync(new URL('../../site/pkg/railnote_bg.wasm', import.meta.url)) });
@@ -45,7 +45,7 @@ function randomDoc(r) {
   };
   const maybe = (obj, key, v) => { if (r() < 0.6) obj[key] = v; };
   const source = { name: name(0, 'Source'), vMin: num(), vNom: num(), vMax: num() };
-  maybe(source, 'capacityMah', num());
+  maybe(source, 'capacityAh', num());
   maybe(source, 'capacityWh', num());
   maybe(source, 'currentLimitA', num());
   const rails = [];
@@ -53,7 +53,9 @@ function randomDoc(r) {
   for (let i = 0; i < nRails; i++) {
     const parent = i === 0 || r() < 0.3 ? source.name : rails[Math.floor(r() * i)].name;
     const rail = { name: name(i, 'Rail'), parent, kind: ['linear', 'switching', 'switch'][Math.floor(r() * 3)] };
-    for (const k of ['vout', 'efficiencyPct', 'iq', 'dropoutV', 'rOn', 'thetaJa', 'tjMax', 'ratedA']) maybe(rail, k, num());
+    for (const k of ['vout', 'efficiencyPct', 'iq', 'dropoutV', 'rOn', 'thetaJa', 'tjMax', 'ratedA',
+      'dropoutAtA', 'gndPct', 'voutTolPct', 'headroomMarginV', 'thermalMarginC', 'fsw', 'inductance', 'mainRdsOn', 'coss']) maybe(rail, k, num());
+    for (const [k, choices] of Object.entries(RAIL_CHOICES)) maybe(rail, k, choices[Math.floor(r() * choices.length)]);
     rails.push(rail);
   }
   const loads = [];
@@ -63,7 +65,7 @@ function randomDoc(r) {
     for (const k of ['typA', 'peakA', 'typW', 'peakW', 'activityPct', 'sleepA']) maybe(load, k, num());
     loads.push(load);
   }
-  const doc = { version: 1, sources: [source], rails, loads };
+  const doc = { version: 2, sources: [source], rails, loads };
   maybe(doc, 'taMax', num());
   return doc;
 }
@@ -100,22 +102,33 @@ test('share-link code round trip is lossless on 500 random trees, and the demo l
   assert.ok(code.length < exportJson(demoDoc()).length, 'compressed code shorter than the JSON');
 });
 
-test('the stored version 1 fixture still loads and checkTree reads it', () => {
+test('the stored version 1 fixture still loads, migrated to version 2, and checks the same as checkTree reading it as it is', () => {
   const doc = importJson(FIXTURE_V1);
-  assert.equal(doc.version, 1);
+  assert.equal(doc.version, 2);
   assert.equal(doc.rails.length, 4);
   assert.equal(doc.loads[2].name, 'Probe heater');
+  // 7000 mAh became 7 Ah; nothing else changed.
+  assert.equal(doc.sources[0].capacityAh, 7);
+  assert.equal('capacityMah' in doc.sources[0], false);
+  const raw = JSON.parse(FIXTURE_V1);
+  assert.deepStrictEqual({ ...doc, version: 1, sources: raw.sources }, raw);
   const report = checkTree(doc);
   assert.equal(report.corners.length, 3);
   assert.ok(Number.isFinite(report.corners[1].sourceW.avg) && report.corners[1].sourceW.avg > 0.1 * 0.01);
+  // checkTree reads version 1 itself too, with the same result (runtime from 7000 mAh included).
+  assert.deepStrictEqual(checkTree(raw), report);
+  assert.ok(report.runtimeH > 100, `runtime ${report.runtimeH} h`);
 });
 
 test('migrate: no version is version 1; later or odd versions are refused by name', () => {
   const noVersion = JSON.parse(FIXTURE_V1);
   delete noVersion.version;
-  assert.equal(migrate(noVersion).version, 1);
+  assert.equal(migrate(noVersion).version, 2);
   assert.deepStrictEqual(importJson(JSON.stringify(noVersion)), importJson(FIXTURE_V1));
-  throwsDoc(() => importJson('{"version": 2}'), 'version', 'a later version');
+  throwsDoc(() => importJson('{"version": 3}'), 'version', 'a later version');
+  // A version 1 document is checked against version 1's keys: version 2's are not in it.
+  throwsDoc(() => importJson('{"version":1,"sources":[{"name":"B","capacityAh":7}]}'), 'sources[0].capacityAh', 'a version 2 key in version 1');
+  throwsDoc(() => importJson('{"version":2,"sources":[{"name":"B","capacityMah":7000}]}'), 'sources[0].capacityMah', 'a version 1 key in version 2');
   throwsDoc(() => importJson('{"version": "1"}'), 'version', 'a version as text');
   throwsDoc(() => importJson('{"version": 1.5}'), 'version', 'a fractional version');
 });
@@ -131,6 +144,7 @@ test('bad documents give messages that name the place', () => {
   throwsDoc(() => importJson('{"version":1,"rails":[{"name":"a","vout":3.3,"colour":"red"}]}'), 'rails[0].colour', 'an unknown key');
   throwsDoc(() => importJson('{"version":1,"extra":1}'), 'extra', 'an unknown top-level key');
   throwsDoc(() => importJson('{"version":1,"taMax":"hot"}'), 'taMax', 'taMax as text');
+  throwsDoc(() => importJson('{"version":2,"rails":[{"name":"a","dropoutModel":"magic"}]}'), 'rails[0].dropoutModel', 'a choice not on the list');
   throwsDoc(() => importJson(JSON.stringify({ version: 1, rails: Array.from({ length: 501 }, (_, i) => ({ name: `r${i}` })) })), 'rails', 'too many rails');
   throwsDoc(() => importJson(JSON.stringify({ version: 1, sources: [{}, {}] })), 'sources', 'two sources');
 });
