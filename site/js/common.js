@@ -817,4 +817,9 @@ function registerServiceWorker() {
   });
 }
 
-registerServiceWorker();
+// A page must keep working whatever happens here (a policy refused, a storage-less frame).
+try {
+  registerServiceWorker();
+} catch (err) {
+  console.warn(`railnote: offline use is not available (${err && err.message ? err.message : err})`);
+}

@@ -220,7 +220,11 @@ impl Page {
             if attr(tag, "http-equiv")
                 .is_some_and(|v| v.eq_ignore_ascii_case("content-security-policy"))
             {
-                let e = if head_src[e..].starts_with('\n') { e + 1 } else { e };
+                let e = if head_src[e..].starts_with('\n') {
+                    e + 1
+                } else {
+                    e
+                };
                 edits.push((s, e, String::new()));
             }
         }
