@@ -616,6 +616,89 @@ mod tests {
         assert!(head.contains("href=\"data:x\""));
     }
 
+    /// The text between `open` and `close` after the first `open`.
+    fn between<'a>(s: &'a str, open: &str, close: &str) -> &'a str {
+        let i = s.find(open).expect(open) + open.len();
+        &s[i..i + s[i..].find(close).expect(close)]
+    }
+
+    #[test]
+    fn a_small_site_becomes_single_files_whose_policy_hashes_what_they_hold() {
+        let site = std::env::temp_dir().join(format!("railnote-single-{}", std::process::id()));
+        let out = site.join("out");
+        let _ = fs::remove_dir_all(&site);
+        for (path, text) in [
+            ("index.html", PAGE.replace("<script type=\"module\" src=\"js/linear-widget.js\"></script>\n", "")
+                .replace("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'self'\">\n", "")),
+            ("linear.html", PAGE.to_string()),
+            ("embed.html", "not read".to_string()),
+            ("css/railnote.css", "i { background: url(\"../favicon.svg\"); }".to_string()),
+            ("favicon.svg", "<svg/>".to_string()),
+            ("js/linear-widget.js", "import { ready } from './engine.js';\nconst PAGE = new URL('../linear.html', import.meta.url).href;\nready.then(() => PAGE);\n".to_string()),
+            ("js/engine.js", "export const ready = Promise.resolve(typeof RAILNOTE_INLINE_WASM);\n".to_string()),
+            ("pkg/railnote_bg.wasm", "\0asm".to_string()),
+        ] {
+            let file = site.join(path);
+            fs::create_dir_all(file.parent().unwrap()).unwrap();
+            fs::write(file, text).unwrap();
+        }
+        let written = build(&site, &out).unwrap();
+        let names: Vec<String> = written
+            .iter()
+            .map(|w| w.path.file_name().unwrap().to_string_lossy().into_owned())
+            .collect();
+        assert_eq!(names, ["index.html", "linear.html", WHOLE_SITE]);
+        for name in &names {
+            let html = fs::read_to_string(out.join(name)).unwrap();
+            assert_eq!(
+                html.matches("http-equiv=\"Content-Security-Policy\"")
+                    .count(),
+                1,
+                "{name}"
+            );
+            let policy = between(
+                &html,
+                "http-equiv=\"Content-Security-Policy\" content=\"",
+                "\"",
+            );
+            let css = between(&html, "<style>", "</style>");
+            assert!(
+                css.contains("url(\"data:image/svg+xml;base64,PHN2Zy8+\")"),
+                "{css}"
+            );
+            assert!(
+                policy.contains(&format!("style-src {};", csp_hash(css).unwrap())),
+                "{policy}"
+            );
+            assert!(html.contains("<link rel=\"icon\" href=\"data:image/svg+xml;base64,PHN2Zy8+\""));
+            if name == "index.html" {
+                assert!(
+                    !html.contains("<script") && policy.contains("script-src 'none';"),
+                    "{policy}"
+                );
+                continue;
+            }
+            let js = between(&html, "<script type=\"module\">", "</script>");
+            assert!(
+                policy.contains(&format!(
+                    "script-src {} 'wasm-unsafe-eval';",
+                    csp_hash(js).unwrap()
+                )),
+                "{policy}"
+            );
+            // The module's bytes ("\0asm" in base64), and the page link rewritten.
+            assert!(
+                js.contains("})('AGFzbQ==');") && js.contains("__rnPage('linear')"),
+                "{js}"
+            );
+        }
+        let whole = fs::read_to_string(out.join(WHOLE_SITE)).unwrap();
+        assert!(whole.contains("<template data-rn-page=\"index\" data-rn-title=\"Linear · railnote\" data-rn-body-class=\"rn-x\">"));
+        assert!(whole.contains("<template data-rn-page=\"linear\""));
+        assert!(whole.contains("const RAILNOTE_PAGES = ['index', 'linear'];"));
+        fs::remove_dir_all(&site).unwrap();
+    }
+
     #[test]
     fn unknown_links_and_body_scripts_are_refused() {
         let manifest = PAGE.replace(
