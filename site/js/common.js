@@ -336,10 +336,13 @@ function replaceSearch(params) {
   window.history.replaceState(window.history.state, '', url);
 }
 
-/** A link to `pagePath` (resolved against the site root) holding these texts as query keys. */
+/**
+ * A link to `pagePath` (resolved against the site root) holding these texts as query keys. Keys
+ * already in `pageUrl` stay first (the whole-site single file's `?page=NAME`).
+ */
 export function shareLink(pageUrl, texts, extra = {}) {
   const url = new URL(pageUrl);
-  const params = new URLSearchParams();
+  const params = new URLSearchParams(url.search);
   for (const [k, v] of Object.entries(extra)) params.set(k, v);
   for (const [k, v] of texts) params.set(k, v);
   url.search = params.toString();
@@ -787,4 +790,36 @@ export class CalculatorElement extends HTMLElement {
         version ? ` with railnote ${version}` : '',
         '. First-order estimate: verify against the datasheet and by measurement.'));
   }
+}
+
+// ---- Offline: the service worker (site/sw.js) ----
+// Every page that loads this module registers the site's service worker, which caches every site
+// file so a hosted copy keeps working without a network. Only over http(s): a page opened from
+// disk (file://, the single-file build) has no worker and needs none. The worker URL goes through
+// the Trusted Types policy `railnote-sw`, the only policy the pages' CSP allows, which lets exactly
+// that one URL through.
+function registerServiceWorker() {
+  if (!('serviceWorker' in navigator)) return;
+  if (window.location.protocol !== 'https:' && window.location.protocol !== 'http:') return;
+  const workerUrl = new URL('../sw.js', import.meta.url).href;
+  let scriptUrl = workerUrl;
+  if (window.trustedTypes && window.trustedTypes.createPolicy) {
+    const policy = window.trustedTypes.createPolicy('railnote-sw', {
+      createScriptURL(u) {
+        if (u === workerUrl) return u;
+        throw new TypeError(`railnote-sw lets only ${workerUrl} through, not ${String(u).slice(0, 200)}`);
+      },
+    });
+    scriptUrl = policy.createScriptURL(workerUrl);
+  }
+  navigator.serviceWorker.register(scriptUrl, { updateViaCache: 'none' }).catch((err) => {
+    console.warn(`railnote: offline use is not available (the service worker did not register: ${err && err.message ? err.message : err})`);
+  });
+}
+
+// A page must keep working whatever happens here (a policy refused, a storage-less frame).
+try {
+  registerServiceWorker();
+} catch (err) {
+  console.warn(`railnote: offline use is not available (${err && err.message ? err.message : err})`);
 }

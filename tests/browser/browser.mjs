@@ -42,7 +42,9 @@ export async function launch() {
  * cleanly. Returns { context, page, requests, problems }.
  */
 export async function open(browser, options = {}) {
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, ...options });
+  // Service workers are blocked unless a test asks for them (offline.test.mjs): site/sw.js would
+  // otherwise precache the whole site behind every test and answer requests page.route expects.
+  const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block', ...options });
   const requests = [];
   const problems = [];
   context.on('request', (r) => requests.push(r.url()));

@@ -4,7 +4,11 @@
 //! on a fresh machine; each command first installs what it needs where it can (see tools.rs).
 
 mod bench;
+mod encode;
+mod flatten;
+mod offline;
 mod server;
+mod single;
 mod tools;
 mod util;
 mod wasm_names;
@@ -20,7 +24,8 @@ const USAGE: &str = "usage: cargo xtask <command>
   build              build the wasm package into site/pkg (cargo, wasm-bindgen, wasm-opt)
   serve [--port N]   build, then serve site/ on 127.0.0.1 (default port 8000)
   test               every check CI runs, in order, stopping at the first failure
-  dist               build, then copy the site to dist/railnote/ for a static host
+  dist               build, then copy the site to dist/railnote/ for a static host and write
+                     one self-contained file per page and one for the whole site to dist/single/
   bench              print sizes, page weight, page timings and native-vs-WASM speed";
 
 fn main() -> ExitCode {
@@ -135,6 +140,12 @@ pub fn build_site() -> Result {
         "site/pkg/railnote_bg.wasm: {} after wasm-bindgen, {} after wasm-opt {OPT_LEVEL}",
         util::bytes(raw),
         util::bytes(optimised)
+    );
+    // The service worker's precache list and version, from the files now in site/.
+    let (version, files) = offline::write_precache(&site_dir())?;
+    println!(
+        "site/{}: {files} files, version {version}",
+        offline::PRECACHE
     );
     Ok(())
 }
@@ -293,11 +304,40 @@ fn browser_tests() -> Result {
     let addr = server::spawn(listener, site_dir()).map_err(|e| e.to_string())?;
     let base = format!("http://{addr}/");
     println!("static server for the browser tests: {base}");
+    // tests/browser/single-file.test.mjs opens these from disk.
+    let single = single_dir();
+    write_single_files(&single)?;
     run(Command::new("node")
         .args(["--test", "--test-concurrency=1"])
         .args(&files)
         .env("RAILNOTE_BASE_URL", &base)
+        .env("RAILNOTE_SINGLE_DIR", &single)
         .current_dir(&root))
+}
+
+/// Where the single files go (dist/single/).
+fn single_dir() -> PathBuf {
+    repo_root().join("dist/single")
+}
+
+/// Writes the single files from the built site/ and prints each one's size.
+fn write_single_files(out: &Path) -> Result {
+    header("single files: one self-contained HTML file per page and one for the whole site");
+    let written = single::build(&site_dir(), out)?;
+    for w in &written {
+        let gz = util::gzip9_size(&w.path)?;
+        let name = w.path.file_name().unwrap_or_default().to_string_lossy();
+        println!(
+            "{name:<16} {:>28}   gzip -9 {}",
+            util::bytes(w.bytes),
+            util::bytes(gz)
+        );
+    }
+    for (page, why) in single::SKIPPED {
+        println!("(not written: {page}, which {why})");
+    }
+    println!("{}", out.display());
+    Ok(())
 }
 
 fn dist() -> Result {
@@ -322,6 +362,11 @@ fn dist() -> Result {
     println!(
         "Copy the folder as it is to any static host. It needs no server code; the host should \
          send .wasm as application/wasm (the page still loads without, a little slower)."
+    );
+    write_single_files(&single_dir())?;
+    println!(
+        "Each file opens from disk with no server; {} holds every page (?page=NAME).",
+        single::WHOLE_SITE
     );
     Ok(())
 }
