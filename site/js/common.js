@@ -82,7 +82,10 @@ export function buildField(def, prefix) {
   const control = h('span', { class: 'rn-control' }, input,
     def.type === 'select' ? null : h('span', { class: 'rn-unit', id: unitId }, def.unit));
   const note = def.note ? h('span', { class: 'rn-note', id: noteId }, def.note) : null;
-  const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
+  // Not a live region: the message is the field's description (read with the field), and the
+  // widget's one polite announcer says it once typing settles (a live message per field would
+  // speak again at every keystroke).
+  const message = h('span', { class: 'rn-msg', id: msgId });
   const root = h('div', { class: 'rn-field', 'data-key': def.key }, label, control, note, message);
   return { def, root, input, message };
 }
@@ -113,7 +116,7 @@ export function buildFieldRows(defs, prefix, { caption, rowWord, columns }) {
         id, name: def.key, type: 'text', inputmode: 'text', autocomplete: 'off',
         spellcheck: 'false', 'aria-describedby': `${unitId} ${msgId}`, size: 8,
       });
-      const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
+      const message = h('span', { class: 'rn-msg', id: msgId });
       const root = h('div', { class: 'rn-field rn-cell', 'data-key': def.key },
         h('label', { for: id, class: 'rn-visually-hidden' }, def.label),
         h('span', { class: 'rn-control' }, input, h('span', { class: 'rn-unit', id: unitId }, def.unit)),
@@ -131,7 +134,8 @@ export function buildFieldRows(defs, prefix, { caption, rowWord, columns }) {
 
 /** Show (or, with null, clear) the message at a field. */
 export function setFieldMessage(field, text) {
-  field.message.textContent = text || '';
+  // Only on a change, so a message that stays while the user types is not rewritten each time.
+  if (field.message.textContent !== (text || '')) field.message.textContent = text || '';
   field.root.classList.toggle('rn-bad', Boolean(text));
   if (text) field.input.setAttribute('aria-invalid', 'true');
   else field.input.removeAttribute('aria-invalid');
@@ -408,6 +412,57 @@ export function createAnnouncer() {
   };
 }
 
+/** What a sideways-scrolling region is called when it takes keyboard focus. */
+const SCROLL_WORDS = [['.rn-eq', 'Equation'], ['pre', 'Code'], ['.rn-table-scroll', 'Table or figure']];
+
+/**
+ * Make each region under `root` that scrolls sideways (an equation, a code block, a wide table
+ * or figure) reachable by keyboard: one that overflows and holds nothing focusable gets
+ * tabindex="0" (arrow keys then scroll it), and, unless it has a role and name of its own, the
+ * role group and a name ("Equation, scrolls sideways"). One that no longer overflows loses what
+ * this added (marked data-rn-scroll). Called after each render and on resize; pages without a
+ * widget have no such region that overflows at their widths (the browser tests run axe there).
+ */
+export function keyboardScrollable(root = document) {
+  const focusable = 'a[href], button, input, select, textarea, [tabindex]:not([data-rn-scroll])';
+  for (const [selector, words] of SCROLL_WORDS) {
+    for (const el of root.querySelectorAll(selector)) {
+      const overflows = el.scrollWidth > el.clientWidth + 1 && getComputedStyle(el).overflowX !== 'visible';
+      const marked = el.hasAttribute('data-rn-scroll');
+      if (overflows && !marked && !el.querySelector(focusable) && !el.hasAttribute('tabindex')) {
+        el.setAttribute('tabindex', '0');
+        el.setAttribute('data-rn-scroll', '');
+        if (!el.hasAttribute('role') && !el.hasAttribute('aria-label')) {
+          el.setAttribute('role', 'group');
+          el.setAttribute('aria-label', `${words}, scrolls sideways`);
+          el.setAttribute('data-rn-scroll', 'named');
+        }
+      } else if (!overflows && marked) {
+        if (el.getAttribute('data-rn-scroll') === 'named') {
+          el.removeAttribute('role');
+          el.removeAttribute('aria-label');
+        }
+        el.removeAttribute('tabindex');
+        el.removeAttribute('data-rn-scroll');
+      }
+    }
+  }
+}
+
+if (typeof window !== 'undefined' && typeof document !== 'undefined') {
+  // The page's own prose (equations, code): once now (module scripts run after parsing) and
+  // again after a resize settles.
+  let scrollTimer = null;
+  const recheck = () => keyboardScrollable(document);
+  if (document.readyState === 'loading') document.addEventListener('DOMContentLoaded', recheck, { once: true });
+  else recheck();
+  window.addEventListener('load', recheck, { once: true });
+  window.addEventListener('resize', () => {
+    clearTimeout(scrollTimer);
+    scrollTimer = setTimeout(recheck, 200);
+  });
+}
+
 /**
  * Format a number through the WASM formatter; null/undefined (absent optional results) and
  * formatter failures show as an em dash.
@@ -561,7 +616,10 @@ export class CalculatorElement extends HTMLElement {
     this.append(
       h('div', { class: 'rn-sheet' },
         h('div', { class: 'rn-sheet-inputs' }, form, tools),
-        h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
+        h('div', { class: 'rn-sheet-results' },
+          // The results' own headings are h3: this h2 keeps the page's outline in order.
+          h('h2', { class: 'rn-visually-hidden rn-results-heading' }, this.spec.resultsLabel),
+          this.status, this.results)),
       this.announcer.region);
     if (this.hasAttribute('sync-url')) this.urlState = new UrlState(this.keys);
   }
@@ -679,16 +737,22 @@ export class CalculatorElement extends HTMLElement {
   compute() {
     const api = this.api;
     this.beforeCompute();
-    for (const f of this.fields) setFieldMessage(f, null);
+    // Each field's message is set once per compute (cleared where no message remains), so a
+    // message that stays the same is not rewritten at every keystroke.
+    const showMessages = (bad) => {
+      const byField = new Map(bad.filter(([f]) => f));
+      for (const f of this.fields) {
+        const msg = byField.get(f) || null;
+        setFieldMessage(f, msg);
+        const fold = msg ? f.root.closest('details') : null;
+        if (fold) fold.open = true;
+      }
+    };
     const { values, bad, rows } = parseFields(api, this.fields, { skip: (f) => this.skipField(f) });
     this.rows = rows;
     this.values = values;
     if (bad.length) {
-      for (const [f, msg] of bad) {
-        setFieldMessage(f, msg);
-        const fold = f.root.closest('details');
-        if (fold) fold.open = true;
-      }
+      showMessages(bad);
       this.renderError(bad);
       return;
     }
@@ -697,16 +761,12 @@ export class CalculatorElement extends HTMLElement {
       result = this.run(api, values);
     } catch (err) {
       const f = err ? fieldForError(this.fields, err.field, rows) : null;
-      if (f) {
-        setFieldMessage(f, errorText(err));
-        const fold = f.root.closest('details');
-        if (fold) fold.open = true;
-        this.renderError([[f, errorText(err)]]);
-      } else {
-        this.renderError([[null, errorText(err)]]);
-      }
+      const bad1 = [[f, errorText(err)]];
+      showMessages(bad1);
+      this.renderError(bad1);
       return;
     }
+    showMessages([]);
     this.renderResult(result);
   }
 
@@ -733,6 +793,7 @@ export class CalculatorElement extends HTMLElement {
         h('p', { class: 'rn-error-head' }, n === 1 ? `One input needs fixing before ${subject} can be checked:` : `${n} inputs need fixing before ${subject} can be checked:`),
         list));
     this.announcer.announce(n === 1 ? `Input problem: ${bad[0][0] ? bad[0][0].def.label + ': ' : ''}${bad[0][1]}` : `${n} input problems.`);
+    keyboardScrollable(this.results);
     this.finish('error', null);
   }
 
@@ -746,6 +807,7 @@ export class CalculatorElement extends HTMLElement {
     const parts = [this.verdictBlock(r), ...this.resultParts(r), this.recordBlock()];
     this.results.replaceChildren(...parts.flat(Infinity).filter(Boolean));
     this.announcer.announce(`${word}. ${r.summary}`);
+    keyboardScrollable(this.results);
     this.finish('ready', r);
   }
 
