@@ -464,6 +464,64 @@ if (typeof window !== 'undefined' && typeof document !== 'undefined') {
 }
 
 /**
+ * Run `fn` when the page is about to print: the `beforeprint` event (the browser's print, and
+ * printing to PDF), and a change of matchMedia('print') (engines that fire only that). Both may
+ * fire for one print; `fn` must be idempotent.
+ */
+export function onPrint(fn, signal) {
+  window.addEventListener('beforeprint', fn, { signal });
+  const mq = window.matchMedia ? window.matchMedia('print') : null;
+  if (mq && mq.addEventListener) mq.addEventListener('change', (e) => { if (e.matches) fn(); }, { signal });
+}
+
+/** A unit's symbol when it is one symbol (V, mA's A, K/W, °C, ± % → %); null for "% of load". */
+function unitSymbol(unit) {
+  const u = String(unit || '').replace(/^±\s*/, '').trim();
+  return u && !/\s/.test(u) ? u : null;
+}
+
+/**
+ * Make the page a review record at print time: every `.rn-printed` element (each widget's record
+ * has one; a page without one gets one under its h1) says when it was printed, and a field whose
+ * typed text already ends with its unit ("4.85 V") hides the unit beside it in print, so the
+ * record reads "4.85 V", not "4.85 V V". Text only (textContent), no styles: CSP-safe.
+ */
+export function preparePrint(doc = document) {
+  const stamp = stampNow();
+  let slots = [...doc.querySelectorAll('.rn-printed')];
+  if (!slots.length) {
+    const main = doc.querySelector('main') || doc.body;
+    const p = h('p', { class: 'rn-printed rn-print-only' });
+    const h1 = main.querySelector('h1');
+    if (h1) h1.after(p); else main.prepend(p);
+    slots = [p];
+  }
+  for (const slot of slots) {
+    slot.replaceChildren('Printed ', h('time', { datetime: stamp.iso }, stamp.text), '.');
+  }
+  for (const f of doc.querySelectorAll('.rn-field')) {
+    const input = f.querySelector('input');
+    const unit = f.querySelector('.rn-unit');
+    if (!input || !unit) continue;
+    const symbol = unitSymbol(unit.textContent);
+    const typed = input.value.trim();
+    f.classList.toggle('rn-unit-typed', Boolean(symbol && typed.endsWith(symbol)));
+  }
+}
+
+if (typeof window !== 'undefined' && typeof document !== 'undefined') onPrint(() => preparePrint(document));
+
+/** A widget record's "Printed …" line: empty on screen, filled at print (also if built while printing). */
+export function printedSlot() {
+  const p = h('p', { class: 'rn-printed rn-print-only' });
+  if (window.matchMedia && window.matchMedia('print').matches) {
+    const stamp = stampNow();
+    p.append('Printed ', h('time', { datetime: stamp.iso }, stamp.text), '.');
+  }
+  return p;
+}
+
+/**
  * Format a number through the WASM formatter; null/undefined (absent optional results) and
  * formatter failures show as an em dash.
  */
@@ -847,6 +905,8 @@ export class CalculatorElement extends HTMLElement {
       h('p', {}, 'Link to this check: ', h('a', { href: link, class: 'rn-permalink' }, link)),
       h('p', {}, 'Computed ', h('time', { datetime: stamp.iso }, stamp.text),
         version ? ` with railnote ${version}` : '',
-        '. First-order estimate: verify against the datasheet and by measurement.'));
+        '. First-order estimate: verify against the datasheet and by measurement.'),
+      // Filled when the page prints (preparePrint): the date of the paper record.
+      printedSlot());
   }
 }
