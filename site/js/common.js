@@ -474,7 +474,7 @@ export function onPrint(fn, signal) {
   if (mq && mq.addEventListener) mq.addEventListener('change', (e) => { if (e.matches) fn(); }, { signal });
 }
 
-/** A unit's symbol when it is one symbol (V, mA's A, K/W, °C, ± % → %); null for "% of load". */
+/** A unit's symbol when it is one symbol (V, K/W, °C; "± %" gives %); null for a phrase ("% of load"). */
 function unitSymbol(unit) {
   const u = String(unit || '').replace(/^±\s*/, '').trim();
   return u && !/\s/.test(u) ? u : null;

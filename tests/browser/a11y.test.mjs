@@ -169,7 +169,7 @@ for (const calc of CALCULATORS) {
     const { context, page } = await openPage(calc.page);
     await settled(page, 'ready', calc.tag);
     const regions = await page.locator(`${calc.tag} :is(${LIVE})`).evaluateAll((els) => els.map((e) => ({
-      live: e.getAttribute('aria-live'), role: e.getAttribute('role'), cls: e.className,
+      live: e.getAttribute('aria-live'), role: e.getAttribute('role'), cls: e.className, id: e.id,
     })));
     const announcers = regions.filter((r) => r.live === 'polite');
     assert.equal(announcers.length, 1, `one aria-live="polite" region in ${calc.tag}: ${JSON.stringify(regions)}`);
@@ -210,9 +210,44 @@ for (const calc of CALCULATORS) {
     assert.ok(said.length <= 400, `short (${said.length} characters): ${said}`);
     const verdict = await page.locator(`${calc.tag} .rn-verdict-word`).first().textContent();
     assert.ok(said.includes(verdict.replace(/[✓!✗]/g, '').trim().split(/\s+/)[0]), `it says the verdict shown (${verdict})`);
-    // Besides it, only the tools' status line (what Copy link or Reset did) may be live.
-    const others = regions.filter((r) => r.live !== 'polite' && !/\brn-tool-status\b/.test(r.cls));
+    // Besides it, only lines that answer a button may be live: the tools' status (what Copy link
+    // or Reset did) and the tree's paste box result (its "Open the pasted document" button).
+    const others = regions.filter((r) => r.live !== 'polite' && !/\brn-tool-status\b/.test(r.cls) && r.id !== 'rn-tree-paste-msg');
     assert.deepEqual(others, [], `no other live regions (each would speak on its own): ${others.length} more`);
     await context.close();
   });
 }
+
+// Dark scheme (the stylesheet's prefers-color-scheme: dark colours): axe again, colour contrast
+// included, on the index and each calculator's demo. Forced colours (Windows high contrast):
+// the focus indicator is an outline, which forced colours keep (a box-shadow they drop).
+for (const path of ['index.html', ...CALCULATORS.map((c) => c.page)]) {
+  test(`axe in the dark scheme: ${path}`, async (t) => {
+    const o = await open(browser, { colorScheme: 'dark' });
+    await withCsp(o.context);
+    await o.page.goto(url(path));
+    const calc = CALCULATORS.find((c) => c.page === path);
+    if (calc) await settled(o.page, 'ready', calc.tag);
+    assert.equal(await o.page.evaluate(() => matchMedia('(prefers-color-scheme: dark)').matches), true);
+    await axeCheck(t, o.page, `${path} (dark)`);
+    await o.context.close();
+  });
+}
+
+test('forced colours: a focused field still shows its focus outline', async () => {
+  const o = await open(browser, { forcedColors: 'active' });
+  await withCsp(o.context);
+  await o.page.goto(url('linear.html'));
+  await settled(o.page, 'ready');
+  assert.equal(await o.page.evaluate(() => matchMedia('(forced-colors: active)').matches), true);
+  await field(o.page, 'vin-min').focus();
+  await o.page.keyboard.press('Shift+Tab');
+  await o.page.keyboard.press('Tab');
+  const ring = await o.page.evaluate(() => {
+    const cs = getComputedStyle(document.activeElement);
+    return { name: document.activeElement.name, style: cs.outlineStyle, width: parseFloat(cs.outlineWidth), visible: document.activeElement.matches(':focus-visible') };
+  });
+  assert.equal(ring.name, 'vin-min');
+  assert.ok(ring.visible && ring.style !== 'none' && ring.width >= 2, JSON.stringify(ring));
+  await o.context.close();
+});

@@ -133,3 +133,22 @@ for (const p of PAGES) {
     await context.close();
   });
 }
+
+test('print with a bad value: the record names the field and its message, and shows no result', async () => {
+  const tag = 'railnote-linear';
+  const { context, page } = await open(browser);
+  await withCsp(context);
+  await page.goto(url('linear.html'));
+  await settled(page, 'ready', tag);
+  await field(page, 'vin-min', tag).fill('4.8 apples');
+  await settled(page, 'error', tag);
+  const msg = (await page.locator(`${tag} .rn-field[data-key="vin-min"] .rn-msg`).textContent()).trim();
+  assert.ok(msg.length > 10, 'the field shows a message');
+  const file = path.join(OUT_DIR, 'linear-error-print.pdf');
+  await page.pdf({ path: file, format: 'A4' });
+  const text = words(pdfText(file));
+  assert.ok(text.includes('4.8 apples'), 'the bad value as typed');
+  assert.ok(text.includes(`Lowest input: ${words(msg)}`), `the error list names the field: "Lowest input: ${msg}"`);
+  assert.ok(!/\b(Pass|Marginal|Fail|PASS|MARGINAL|FAIL)\b/.test(text), 'no verdict is printed for a check that did not run');
+  await context.close();
+});
