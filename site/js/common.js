@@ -82,7 +82,10 @@ export function buildField(def, prefix) {
   const control = h('span', { class: 'rn-control' }, input,
     def.type === 'select' ? null : h('span', { class: 'rn-unit', id: unitId }, def.unit));
   const note = def.note ? h('span', { class: 'rn-note', id: noteId }, def.note) : null;
-  const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
+  // Not a live region: the message is the field's description (read with the field), and the
+  // widget's one polite announcer says it once typing settles (a live message per field would
+  // speak again at every keystroke).
+  const message = h('span', { class: 'rn-msg', id: msgId });
   const root = h('div', { class: 'rn-field', 'data-key': def.key }, label, control, note, message);
   return { def, root, input, message };
 }
@@ -113,7 +116,7 @@ export function buildFieldRows(defs, prefix, { caption, rowWord, columns }) {
         id, name: def.key, type: 'text', inputmode: 'text', autocomplete: 'off',
         spellcheck: 'false', 'aria-describedby': `${unitId} ${msgId}`, size: 8,
       });
-      const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
+      const message = h('span', { class: 'rn-msg', id: msgId });
       const root = h('div', { class: 'rn-field rn-cell', 'data-key': def.key },
         h('label', { for: id, class: 'rn-visually-hidden' }, def.label),
         h('span', { class: 'rn-control' }, input, h('span', { class: 'rn-unit', id: unitId }, def.unit)),
@@ -131,7 +134,8 @@ export function buildFieldRows(defs, prefix, { caption, rowWord, columns }) {
 
 /** Show (or, with null, clear) the message at a field. */
 export function setFieldMessage(field, text) {
-  field.message.textContent = text || '';
+  // Only on a change, so a message that stays while the user types is not rewritten each time.
+  if (field.message.textContent !== (text || '')) field.message.textContent = text || '';
   field.root.classList.toggle('rn-bad', Boolean(text));
   if (text) field.input.setAttribute('aria-invalid', 'true');
   else field.input.removeAttribute('aria-invalid');
@@ -411,6 +415,115 @@ export function createAnnouncer() {
   };
 }
 
+/** What a sideways-scrolling region is called when it takes keyboard focus. */
+const SCROLL_WORDS = [['.rn-eq', 'Equation'], ['pre', 'Code'], ['.rn-table-scroll', 'Table or figure']];
+
+/**
+ * Make each region under `root` that scrolls sideways (an equation, a code block, a wide table
+ * or figure) reachable by keyboard: one that overflows and holds nothing focusable gets
+ * tabindex="0" (arrow keys then scroll it), and, unless it has a role and name of its own, the
+ * role group and a name ("Equation, scrolls sideways"). One that no longer overflows loses what
+ * this added (marked data-rn-scroll). Called after each render and on resize; pages without a
+ * widget have no such region that overflows at their widths (the browser tests run axe there).
+ */
+export function keyboardScrollable(root = document) {
+  const focusable = 'a[href], button, input, select, textarea, [tabindex]:not([data-rn-scroll])';
+  for (const [selector, words] of SCROLL_WORDS) {
+    for (const el of root.querySelectorAll(selector)) {
+      const overflows = el.scrollWidth > el.clientWidth + 1 && getComputedStyle(el).overflowX !== 'visible';
+      const marked = el.hasAttribute('data-rn-scroll');
+      if (overflows && !marked && !el.querySelector(focusable) && !el.hasAttribute('tabindex')) {
+        el.setAttribute('tabindex', '0');
+        el.setAttribute('data-rn-scroll', '');
+        if (!el.hasAttribute('role') && !el.hasAttribute('aria-label')) {
+          el.setAttribute('role', 'group');
+          el.setAttribute('aria-label', `${words}, scrolls sideways`);
+          el.setAttribute('data-rn-scroll', 'named');
+        }
+      } else if (!overflows && marked) {
+        if (el.getAttribute('data-rn-scroll') === 'named') {
+          el.removeAttribute('role');
+          el.removeAttribute('aria-label');
+        }
+        el.removeAttribute('tabindex');
+        el.removeAttribute('data-rn-scroll');
+      }
+    }
+  }
+}
+
+if (typeof window !== 'undefined' && typeof document !== 'undefined') {
+  // The page's own prose (equations, code): once now (module scripts run after parsing) and
+  // again after a resize settles.
+  let scrollTimer = null;
+  const recheck = () => keyboardScrollable(document);
+  if (document.readyState === 'loading') document.addEventListener('DOMContentLoaded', recheck, { once: true });
+  else recheck();
+  window.addEventListener('load', recheck, { once: true });
+  window.addEventListener('resize', () => {
+    clearTimeout(scrollTimer);
+    scrollTimer = setTimeout(recheck, 200);
+  });
+}
+
+/**
+ * Run `fn` when the page is about to print: the `beforeprint` event (the browser's print, and
+ * printing to PDF), and a change of matchMedia('print') (engines that fire only that). Both may
+ * fire for one print; `fn` must be idempotent.
+ */
+export function onPrint(fn, signal) {
+  window.addEventListener('beforeprint', fn, { signal });
+  const mq = window.matchMedia ? window.matchMedia('print') : null;
+  if (mq && mq.addEventListener) mq.addEventListener('change', (e) => { if (e.matches) fn(); }, { signal });
+}
+
+/** A unit's symbol when it is one symbol (V, K/W, °C; "± %" gives %); null for a phrase ("% of load"). */
+function unitSymbol(unit) {
+  const u = String(unit || '').replace(/^±\s*/, '').trim();
+  return u && !/\s/.test(u) ? u : null;
+}
+
+/**
+ * Make the page a review record at print time: every `.rn-printed` element (each widget's record
+ * has one; a page without one gets one under its h1) says when it was printed, and a field whose
+ * typed text already ends with its unit ("4.85 V") hides the unit beside it in print, so the
+ * record reads "4.85 V", not "4.85 V V". Text only (textContent), no styles: CSP-safe.
+ */
+export function preparePrint(doc = document) {
+  const stamp = stampNow();
+  let slots = [...doc.querySelectorAll('.rn-printed')];
+  if (!slots.length) {
+    const main = doc.querySelector('main') || doc.body;
+    const p = h('p', { class: 'rn-printed rn-print-only' });
+    const h1 = main.querySelector('h1');
+    if (h1) h1.after(p); else main.prepend(p);
+    slots = [p];
+  }
+  for (const slot of slots) {
+    slot.replaceChildren('Printed ', h('time', { datetime: stamp.iso }, stamp.text), '.');
+  }
+  for (const f of doc.querySelectorAll('.rn-field')) {
+    const input = f.querySelector('input');
+    const unit = f.querySelector('.rn-unit');
+    if (!input || !unit) continue;
+    const symbol = unitSymbol(unit.textContent);
+    const typed = input.value.trim();
+    f.classList.toggle('rn-unit-typed', Boolean(symbol && typed.endsWith(symbol)));
+  }
+}
+
+if (typeof window !== 'undefined' && typeof document !== 'undefined') onPrint(() => preparePrint(document));
+
+/** A widget record's "Printed …" line: empty on screen, filled at print (also if built while printing). */
+export function printedSlot() {
+  const p = h('p', { class: 'rn-printed rn-print-only' });
+  if (window.matchMedia && window.matchMedia('print').matches) {
+    const stamp = stampNow();
+    p.append('Printed ', h('time', { datetime: stamp.iso }, stamp.text), '.');
+  }
+  return p;
+}
+
 /**
  * Format a number through the WASM formatter; null/undefined (absent optional results) and
  * formatter failures show as an em dash.
@@ -564,7 +677,10 @@ export class CalculatorElement extends HTMLElement {
     this.append(
       h('div', { class: 'rn-sheet' },
         h('div', { class: 'rn-sheet-inputs' }, form, tools),
-        h('div', { class: 'rn-sheet-results' }, this.status, this.results)),
+        h('div', { class: 'rn-sheet-results' },
+          // The results' own headings are h3: this h2 keeps the page's outline in order.
+          h('h2', { class: 'rn-visually-hidden rn-results-heading' }, this.spec.resultsLabel),
+          this.status, this.results)),
       this.announcer.region);
     if (this.hasAttribute('sync-url')) this.urlState = new UrlState(this.keys);
   }
@@ -682,16 +798,22 @@ export class CalculatorElement extends HTMLElement {
   compute() {
     const api = this.api;
     this.beforeCompute();
-    for (const f of this.fields) setFieldMessage(f, null);
+    // Each field's message is set once per compute (cleared where no message remains), so a
+    // message that stays the same is not rewritten at every keystroke.
+    const showMessages = (bad) => {
+      const byField = new Map(bad.filter(([f]) => f));
+      for (const f of this.fields) {
+        const msg = byField.get(f) || null;
+        setFieldMessage(f, msg);
+        const fold = msg ? f.root.closest('details') : null;
+        if (fold) fold.open = true;
+      }
+    };
     const { values, bad, rows } = parseFields(api, this.fields, { skip: (f) => this.skipField(f) });
     this.rows = rows;
     this.values = values;
     if (bad.length) {
-      for (const [f, msg] of bad) {
-        setFieldMessage(f, msg);
-        const fold = f.root.closest('details');
-        if (fold) fold.open = true;
-      }
+      showMessages(bad);
       this.renderError(bad);
       return;
     }
@@ -700,16 +822,12 @@ export class CalculatorElement extends HTMLElement {
       result = this.run(api, values);
     } catch (err) {
       const f = err ? fieldForError(this.fields, err.field, rows) : null;
-      if (f) {
-        setFieldMessage(f, errorText(err));
-        const fold = f.root.closest('details');
-        if (fold) fold.open = true;
-        this.renderError([[f, errorText(err)]]);
-      } else {
-        this.renderError([[null, errorText(err)]]);
-      }
+      const bad1 = [[f, errorText(err)]];
+      showMessages(bad1);
+      this.renderError(bad1);
       return;
     }
+    showMessages([]);
     this.renderResult(result);
   }
 
@@ -736,6 +854,7 @@ export class CalculatorElement extends HTMLElement {
         h('p', { class: 'rn-error-head' }, n === 1 ? `One input needs fixing before ${subject} can be checked:` : `${n} inputs need fixing before ${subject} can be checked:`),
         list));
     this.announcer.announce(n === 1 ? `Input problem: ${bad[0][0] ? bad[0][0].def.label + ': ' : ''}${bad[0][1]}` : `${n} input problems.`);
+    keyboardScrollable(this.results);
     this.finish('error', null);
   }
 
@@ -749,6 +868,7 @@ export class CalculatorElement extends HTMLElement {
     const parts = [this.verdictBlock(r), ...this.resultParts(r), this.recordBlock()];
     this.results.replaceChildren(...parts.flat(Infinity).filter(Boolean));
     this.announcer.announce(`${word}. ${r.summary}`);
+    keyboardScrollable(this.results);
     this.finish('ready', r);
   }
 
@@ -788,7 +908,9 @@ export class CalculatorElement extends HTMLElement {
       h('p', {}, 'Link to this check: ', h('a', { href: link, class: 'rn-permalink' }, link)),
       h('p', {}, 'Computed ', h('time', { datetime: stamp.iso }, stamp.text),
         version ? ` with railnote ${version}` : '',
-        '. First-order estimate: verify against the datasheet and by measurement.'));
+        '. First-order estimate: verify against the datasheet and by measurement.'),
+      // Filled when the page prints (preparePrint): the date of the paper record.
+      printedSlot());
   }
 }
 

@@ -16,7 +16,7 @@
 // lays them out and never computes them.
 import { ready } from './engine.js';
 import {
-  h, symbol, formatWith, shareLink, CalculatorElement, VERDICT_WORDS,
+  h, symbol, formatWith, shareLink, CalculatorElement, VERDICT_WORDS, keyboardScrollable,
 } from './common.js';
 import { renderChart } from './chart.js';
 import { FIELD_DEFS as SWITCHING_DEFS, markRectifierFields, otherRectifierField } from './switching-widget.js';
@@ -154,6 +154,7 @@ export class RailnoteCompare extends CalculatorElement {
     this.results.replaceChildren(...parts.flat(Infinity).filter(Boolean));
     const lin = r.linearPossible ? `Linear: ${VERDICT_WORDS[r.linearVerdict] || r.linearVerdict}.` : 'No linear regulator can do this rail.';
     this.announcer.announce(`${lin} Switching: ${VERDICT_WORDS[r.switchingVerdict] || r.switchingVerdict}.`);
+    keyboardScrollable(this.results);
     this.finish('ready', r);
   }
 

@@ -1,7 +1,8 @@
 //! Finds, and where it can installs, the tools the pipeline needs. A fresh machine has none of
 //! them beyond Rust, Node and npm: the wasm32 target, the wasm-bindgen CLI at exactly the crate's
-//! version, npm's binaryen and playwright-core, Debian's chromium, chromium-driver and ngspice,
-//! and the PyPI package `eseries` (the reference for the IEC 60063 series).
+//! version, npm's binaryen, playwright-core and axe-core, Debian's chromium, chromium-driver,
+//! ngspice and poppler-utils (pdftotext, which reads back the printed PDFs), and the PyPI package
+//! `eseries` (the reference for the IEC 60063 series).
 
 use crate::util::{self, probe, run, Result};
 use std::env;
@@ -280,9 +281,13 @@ fn ensure_wasm_bindgen() -> Result {
 /// lockfile (npm writes node_modules/.package-lock.json at every install).
 pub fn npm_install_needed(root: &Path) -> bool {
     let marker = root.join("node_modules/.package-lock.json");
-    let packages_present = ["node_modules/.bin/wasm-opt", "node_modules/playwright-core"]
-        .iter()
-        .all(|p| root.join(p).exists());
+    let packages_present = [
+        "node_modules/.bin/wasm-opt",
+        "node_modules/playwright-core",
+        "node_modules/axe-core/axe.min.js",
+    ]
+    .iter()
+    .all(|p| root.join(p).exists());
     !packages_present || is_older(&marker, &root.join("package-lock.json"))
 }
 
@@ -329,17 +334,22 @@ fn missing_system_packages() -> Vec<&'static str> {
     if !util::on_path("ngspice") {
         missing.push("ngspice");
     }
+    if !util::on_path("pdftotext") {
+        missing.push("poppler-utils");
+    }
     missing
 }
 
 fn ensure_system_packages() -> Result {
-    util::header("tools: checking Debian packages (chromium, chromium-driver, ngspice)");
+    util::header(
+        "tools: checking Debian packages (chromium, chromium-driver, ngspice, poppler-utils)",
+    );
     let missing = missing_system_packages();
     if missing.is_empty() {
-        println!("ok: {CHROMIUM}, {CHROMEDRIVER}, ngspice");
+        println!("ok: {CHROMIUM}, {CHROMEDRIVER}, ngspice, pdftotext");
         return Ok(());
     }
-    let wanted = "apt-get install -y chromium chromium-driver ngspice";
+    let wanted = "apt-get install -y chromium chromium-driver ngspice poppler-utils";
     if !is_root() {
         return Err(format!(
             "missing {}; not running as root, so install them yourself: \
@@ -348,7 +358,7 @@ fn ensure_system_packages() -> Result {
         ));
     }
     println!("missing {}: installing with apt-get", missing.join(", "));
-    apt_install(&["chromium", "chromium-driver", "ngspice"])?;
+    apt_install(&["chromium", "chromium-driver", "ngspice", "poppler-utils"])?;
     let still = missing_system_packages();
     if still.is_empty() {
         Ok(())
@@ -452,6 +462,9 @@ version = "0.3.80"
         };
         set(&lock, now - std::time::Duration::from_secs(60));
         set(&marker, now);
+        assert!(npm_install_needed(&dir), "axe-core missing");
+        fs::create_dir_all(dir.join("node_modules/axe-core")).unwrap();
+        fs::write(dir.join("node_modules/axe-core/axe.min.js"), "").unwrap();
         assert!(!npm_install_needed(&dir), "fresh install");
 
         set(&lock, now + std::time::Duration::from_secs(60));
