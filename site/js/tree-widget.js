@@ -16,7 +16,9 @@
 // After every render the element sets data-state ("ready" | "error" | "failed") and keeps
 // `.result` (checkTree's report, null on error) and `.doc` (the document sent).
 import { ready } from './engine.js';
-import { h, copyText, reportEmbedHeight, createAnnouncer, formatWith, stampNow, VERDICT_WORDS } from './common.js';
+import {
+  h, copyText, reportEmbedHeight, createAnnouncer, formatWith, stampNow, VERDICT_WORDS, keyboardScrollable, printedSlot,
+} from './common.js';
 import {
   demoState, stateFromDoc, docFromState, sanitizeState, importJson, exportJson, shareUrl, decodeDoc,
   codeFromHash, emptyRow, railUses, RAIL_KINDS, MAX_RAILS, MAX_LOADS, ESTIMATE_KEYS,
@@ -157,6 +159,7 @@ export class TreeElement extends HTMLElement {
       h('form', { class: 'rn-inputs rn-tree-inputs', novalidate: true, 'aria-label': 'The tree', on: { submit: (e) => e.preventDefault() } },
         this.tables, tools, paste),
       h('p', { class: 'rn-tree-corner' }, h('label', { for: 'rn-tree-corner' }, 'Show the tree at the '), this.cornerSelect),
+      h('h2', { class: 'rn-visually-hidden rn-results-heading' }, 'Results of the rail tree'),
       this.status, this.results, this.announcer.region);
   }
 
@@ -233,7 +236,7 @@ export class TreeElement extends HTMLElement {
     const railTable = this.table('rails', 'Rails', RAIL_COLUMNS, s.rails, 'rails', 'Rail');
     const loadTable = this.table('loads', 'Loads', LOAD_COLUMNS, s.loads, 'loads', 'Load');
     const listMsg = (list) => {
-      const m = h('p', { class: 'rn-msg rn-list-msg', role: 'status', 'data-list': list });
+      const m = h('p', { class: 'rn-msg rn-list-msg', 'data-list': list });
       this.cells.set(list, { input: null, message: m, root: m });
       return m;
     };
@@ -267,7 +270,7 @@ export class TreeElement extends HTMLElement {
       h('th', { scope: 'row' }, `${i + 1}: ${r.name || '(no name)'}`),
       columns.map((c) => h('td', {}, this.cellNode(`rails[${i}].${c.key}`, r[c.key], c, `Rail ${i + 1}: ${c.head}${c.unit ? ` (${c.unit})` : ''}`)))));
     return h('div', { class: 'rn-tree-detail', 'data-detail': id },
-      h('h3', { class: 'rn-group-note' }, caption),
+      h('p', { class: 'rn-group-note' }, h('strong', {}, caption)),
       h('p', { class: 'rn-group-note' }, note),
       h('div', { class: 'rn-table-scroll' },
         h('table', { class: 'rn-tree-table', 'data-table': id }, h('caption', { class: 'rn-visually-hidden' }, caption),
@@ -315,7 +318,7 @@ export class TreeElement extends HTMLElement {
       input.value = text || '';
     }
     input.addEventListener(input.tagName === 'SELECT' ? 'change' : 'input', () => this.onEdit(path, input.value));
-    const message = h('span', { class: 'rn-msg', id: msgId, role: 'status' });
+    const message = h('span', { class: 'rn-msg', id: msgId });
     const root = h('span', { class: `rn-field rn-cell${column.unit ? '' : ' rn-text-cell'}`, 'data-path': path, 'data-key': path }, input, message);
     this.cells.set(path, { input, message, root });
     return root;
@@ -390,7 +393,6 @@ export class TreeElement extends HTMLElement {
 
   compute() {
     if (!this.api) return;
-    for (const cell of this.cells.values()) this.setMessage(cell, null);
     const { doc, errors } = this.currentDoc();
     this.doc = doc;
     if (errors.length) {
@@ -405,11 +407,17 @@ export class TreeElement extends HTMLElement {
       return;
     }
     this.result = report;
+    this.showMessages(new Map());
     this.renderResult();
   }
 
+  /** Each cell's message set once per compute (a message that stays is not rewritten). */
+  showMessages(byCell) {
+    for (const cell of this.cells.values()) this.setMessage(cell, byCell.get(cell) || null);
+  }
+
   setMessage(cell, text) {
-    cell.message.textContent = text || '';
+    if (cell.message.textContent !== (text || '')) cell.message.textContent = text || '';
     if (cell.input) {
       cell.root.classList.toggle('rn-bad', Boolean(text));
       if (text) cell.input.setAttribute('aria-invalid', 'true');
@@ -438,9 +446,14 @@ export class TreeElement extends HTMLElement {
     this.result = null;
     this.status.textContent = '';
     const list = h('ul', { class: 'rn-error-list' });
+    const byCell = new Map();
     for (const e of errors) {
       const cell = this.cellFor(e.field, e.message);
-      if (cell) this.setMessage(cell, e.message);
+      if (cell) byCell.set(cell, e.message);
+    }
+    this.showMessages(byCell);
+    for (const e of errors) {
+      const cell = this.cellFor(e.field, e.message);
       const target = cell && cell.input;
       list.append(h('li', {}, target
         ? h('button', { type: 'button', class: 'rn-linkish', on: { click: () => target.focus() } }, target.getAttribute('aria-label'))
@@ -450,7 +463,9 @@ export class TreeElement extends HTMLElement {
     this.results.replaceChildren(h('div', { class: 'rn-error-box' },
       h('p', { class: 'rn-error-head' }, n === 1 ? 'One thing needs fixing before the tree can be computed:' : `${n} things need fixing before the tree can be computed:`),
       list));
-    this.announcer.announce(n === 1 ? `Input problem: ${errors[0].message}` : `${n} input problems.`);
+    const first = this.cellFor(errors[0].field, errors[0].message);
+    const where = first && first.input ? ` at ${first.input.getAttribute('aria-label')}` : '';
+    this.announcer.announce(n === 1 ? `Input problem${where}: ${errors[0].message}` : `${n} input problems; the first${where}: ${errors[0].message}`);
     this.finish('error');
   }
 
@@ -552,7 +567,8 @@ export class TreeElement extends HTMLElement {
     const record = h('footer', { class: 'rn-record' },
       h('p', {}, 'Link to this tree: ', this.permalink),
       h('p', {}, 'Computed ', h('time', { datetime: stamp.iso }, stamp.text), version ? ` with railnote ${version}` : '',
-        '. First-order estimate: verify against the datasheets and by measurement.'));
+        '. First-order estimate: verify against the datasheets and by measurement.'),
+      printedSlot());
     const linkDoc = doc;
     shareUrl(PAGE, linkDoc).then((href) => {
       if (this.doc !== linkDoc) return;
@@ -564,6 +580,7 @@ export class TreeElement extends HTMLElement {
       h('section', { class: 'rn-block' }, h('h3', {}, 'The tree'), this.diagram(r, verdictWord)),
       totals, railTable, loadTable,
       h('section', { class: 'rn-block' }, h('h3', {}, 'Checks'), checks), record);
+    keyboardScrollable(this.results);
     this.announcer.announce(`${word}. ${r.summary}`);
     this.finish('ready');
   }
