@@ -624,7 +624,9 @@ const PRINT_PREFIXES: [(i32, &str); 10] = [
 /// Write `value` of `kind` with `digits` significant figures (clamped to 1..=12) in engineering
 /// notation: `format_quantity(0.0123, QuantityKind::Current, 3)` is `"12.3 mA"`. A value that is
 /// not finite prints as an em dash, so nothing shows "NaN". Magnitudes beyond what the prefixes
-/// (or, for kinds without prefix, 10^15) cover are written with a power of ten, `1.2e18 °C`.
+/// (or, for kinds without prefix, 10^15) cover are written with a power of ten, `1.2e18 °C`;
+/// so are magnitudes below a thousandth of the smallest prefix (femto) or, for kinds without
+/// prefix, below 0.001: `1.00e-6 fA`, `1.00e-308 °C`.
 pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
     let digits = digits.clamp(1, 12);
     let mut out = String::new();
@@ -659,6 +661,17 @@ pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
         if mantissa >= 1e15 {
             exponent = libm::floor(libm::log10(mantissa)) as i32;
             mantissa /= libm::pow(10.0, f64::from(exponent));
+            if decimals_for(mantissa, digits).1 >= 10.0 {
+                exponent += 1;
+                mantissa /= 10.0;
+            }
+        } else if mantissa < 1e-3 {
+            // Below the smallest prefix (or, without prefixes, below a thousandth): a power of
+            // ten, as for large values. Fixed decimals would need hundreds of zeros for 1e-300,
+            // more than push_fixed can print.
+            exponent = libm::floor(libm::log10(mantissa)) as i32;
+            // 10^-324 is no f64 at all: scale a subnormal up first, then divide.
+            mantissa = (mantissa * 1e100) / libm::pow(10.0, f64::from(exponent + 100));
             if decimals_for(mantissa, digits).1 >= 10.0 {
                 exponent += 1;
                 mantissa /= 10.0;

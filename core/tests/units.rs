@@ -228,6 +228,69 @@ fn engineering_notation_output() {
 }
 
 #[test]
+fn tiny_values_print_with_a_power_of_ten() {
+    // Regression (found by the browser's hostile corpus: "1e-308" typed as a load current):
+    // a magnitude below what the prefixes cover printed as "0." and hundreds of zeros, in a
+    // message, and not even the right digits. Now a power of ten, as for huge values.
+    let cases: &[(f64, QuantityKind, u32, &str)] = &[
+        (1e-21, Current, 3, "1.00e-6 fA"),
+        (1e-308, Current, 3, "1.00e-293 fA"),
+        (-2.5e-300, Voltage, 2, "-2.5e-285 fV"),
+        (1e-308, Temperature, 3, "1.00e-308 °C"),
+        (4.9e-324, TemperatureDifference, 1, "5e-324 K"),
+        (9.9996e-5, Percent, 3, "1.00e-4 %"),
+        (0.0005, ThermalResistance, 3, "5.00e-4 K/W"),
+        // Still fixed decimals from a thousandth up (the existing cases above).
+        (0.001, ThermalResistance, 3, "0.00100 K/W"),
+        (1e-18, Current, 3, "0.00100 fA"),
+    ];
+    for &(value, kind, digits, want) in cases {
+        let text = format_quantity(value, kind, digits);
+        assert_eq!(text, want, "{value} {kind:?}");
+        assert!(text.len() < 24, "{text}");
+        // And it reads back (to its printed precision).
+        let back = parse_quantity(&text, kind).unwrap_or_else(|e| panic!("{text}: {e}"));
+        assert!(
+            ((back - value) / value).abs() < 0.05,
+            "{text} read back as {back}"
+        );
+    }
+}
+
+#[test]
+fn every_magnitude_prints_short_and_reads_back() {
+    // A sweep over the whole f64 range, subnormals included: each kind, each precision, both
+    // signs. Nothing panics, nothing is longer than a value anyone reads, and the text reads back
+    // to its printed precision (a count: non-negative whole values only, as it is parsed).
+    for kind in QuantityKind::ALL {
+        for e in -324..=308 {
+            for m in [1.0, 2.5, 9.9996] {
+                let value = m * 10f64.powi(e);
+                if value == 0.0 || !value.is_finite() {
+                    continue;
+                }
+                for digits in [1, 3, 12] {
+                    for v in [value, -value] {
+                        let text = format_quantity(v, kind, digits);
+                        assert!(text.chars().count() <= 32, "{v} {kind:?} {digits}: {text}");
+                        if kind == Count && (v < 0.0 || v.fract() != 0.0 || v >= 1e15) {
+                            continue;
+                        }
+                        let back = parse_quantity(&text, kind)
+                            .unwrap_or_else(|err| panic!("{v} {kind:?}: {text}: {err}"));
+                        let tol = if digits == 1 { 0.5 } else { 0.01 };
+                        assert!(
+                            ((back - v) / v).abs() <= tol,
+                            "{v} {kind:?} {digits}: {text} read back as {back}"
+                        );
+                    }
+                }
+            }
+        }
+    }
+}
+
+#[test]
 fn formatted_values_read_back() {
     // Whatever railnote prints, it must accept again: a value copied from a result into a
     // field keeps its meaning (to the printed precision).
