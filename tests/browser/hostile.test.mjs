@@ -381,7 +381,8 @@ for (const calc of CALCULATORS) {
     totals.typed += notes.cases;
     totals.fields += tested.length;
     totals.pages += 1;
-    t.diagnostic(`${calc.page}: ${CORPUS.length} entries × ${tested.length} fields = ${notes.cases} typed cases; `
+    const perField = notes.text ? `${CORPUS.length} entries per number cell, the ${CORPUS.filter((e) => e.name).length} odd as text per name cell` : `${CORPUS.length} entries`;
+    t.diagnostic(`${calc.page}: ${perField} × ${tested.length} fields = ${notes.cases} typed cases; `
       + `refused with their message ${notes.refused}; valid spellings that computed ${notes.sameComputed}, refused by the calculator's range like their plain spelling ${notes.sameRefused}; `
       + `blank left out ${notes.blankOmitted}, blank refused ${notes.blankRefused}; extreme numbers computed ${notes.numberComputed}, refused at their field ${notes.numberRefused}, refused at the other field of a relation ${notes.numberRelated}`
       + (notes.treeFixme ? `; FIXME(tree): refused by checkTree but not at the cell that holds the value ${notes.treeFixme}` : '')
