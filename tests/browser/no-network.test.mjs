@@ -38,8 +38,8 @@ after(async () => { await browser?.close(); });
  */
 async function recordingContext() {
   // Service workers blocked: a request a service worker answers (or makes) passes neither a
-  // route nor the request event, so with one in the way silence would prove nothing. What the
-  // site's service worker fetches is its own list of the site's files.
+  // route nor the request event, so with one in the way silence would prove nothing. What a
+  // service worker itself fetches needs a test of its own.
   const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
   const routed = [];
   const requested = [];
