@@ -50,11 +50,16 @@ pub(crate) mod check {
         let Some((number, unit)) = text.split_once(' ') else {
             return text;
         };
-        if !number.contains('.') {
+        // Only the mantissa loses its trailing zeros: "1.000e-60" is "1e-60", not "1.000e-6".
+        let (mantissa, exponent) = match number.find('e') {
+            Some(at) => number.split_at(at),
+            None => (number, ""),
+        };
+        if !mantissa.contains('.') {
             return text;
         }
-        let number = number.trim_end_matches('0').trim_end_matches('.');
-        format!("{number} {unit}")
+        let mantissa = mantissa.trim_end_matches('0').trim_end_matches('.');
+        format!("{mantissa}{exponent} {unit}")
     }
 
     /// A value as a message shows it: three significant figures with its unit ("3.30 V").
@@ -153,5 +158,26 @@ pub(crate) mod check {
                 ),
             ))
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::check::show;
+    use crate::units::QuantityKind::{Temperature, Voltage};
+
+    #[test]
+    fn show_trims_the_mantissa_only() {
+        // Regression (found by the browser's hostile corpus, T_j,max typed as 1e-60 °C): the
+        // zeros of the exponent were trimmed too, so 1e-60 showed as "1.000e-6".
+        assert_eq!(show(1e-60, Temperature), "1e-60 °C");
+        assert_eq!(show(1e-308, Temperature), "1e-308 °C");
+        assert_eq!(show(2.5e-20, Temperature), "2.5e-20 °C");
+        assert_eq!(show(1e32, Voltage), "1e20 TV");
+        // Plain numbers as before.
+        assert_eq!(show(0.001, Temperature), "0.001 °C");
+        assert_eq!(show(1e6, Voltage), "1 MV");
+        assert_eq!(show(125.0, Temperature), "125 °C");
+        assert_eq!(show(1.5e3, Voltage), "1.5 kV");
     }
 }
