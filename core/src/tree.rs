@@ -500,16 +500,62 @@ pub struct ValidTree {
     estimates: Vec<Option<ValidSwitching>>,
 }
 
-/// A value check's error, said of the rail.
+/// The switching estimate's fields as a rail's columns: its errors name the column
+/// (`rails.fsw`), the sentence names the rail.
+const ESTIMATE_COLUMNS: [(&str, &str); 26] = [
+    ("vout", "rails.vout"),
+    ("iq", "rails.iq"),
+    ("topology", "rails.topology"),
+    ("rectifier", "rails.rectifier"),
+    ("lightLoad", "rails.lightLoad"),
+    ("fsw", "rails.fsw"),
+    ("inductance", "rails.inductance"),
+    ("mainRdsOn", "rails.mainRdsOn"),
+    ("rectRdsOn", "rails.rectRdsOn"),
+    ("diodeVf", "rails.diodeVf"),
+    ("riseTime", "rails.riseTime"),
+    ("fallTime", "rails.fallTime"),
+    ("mainGateCharge", "rails.mainGateCharge"),
+    ("rectGateCharge", "rails.rectGateCharge"),
+    ("driveV", "rails.driveV"),
+    ("deadTime", "rails.deadTime"),
+    ("bodyDiodeVf", "rails.bodyDiodeVf"),
+    ("cossCharge", "rails.cossCharge"),
+    ("coss", "rails.coss"),
+    ("dcr", "rails.dcr"),
+    ("coreLoss", "rails.coreLoss"),
+    ("cout", "rails.cout"),
+    ("esr", "rails.esr"),
+    ("minOnTime", "rails.minOnTime"),
+    ("maxDutyPct", "rails.maxDutyPct"),
+    ("isat", "rails.isat"),
+];
+
+/// A value check's error, said of the rail: its field is the column (`rails.vout`, or for the
+/// switching estimate's fields their column too), the sentence names the rail.
 #[inline(never)]
 fn on_rail(name: &str, e: InputError) -> InputError {
-    rail_error(name, e.message)
+    let field = if e.field.starts_with("rails") {
+        e.field
+    } else {
+        ESTIMATE_COLUMNS
+            .iter()
+            .find(|(k, _)| *k == e.field)
+            .map_or("rails", |(_, c)| c)
+    };
+    rail_error_at(field, name, e.message)
+}
+
+/// An error about a rail as a whole (its name, parent, place in the tree).
+#[inline(never)]
+fn rail_error(name: &str, message: String) -> InputError {
+    rail_error_at("rails", name, message)
 }
 
 #[inline(never)]
-fn rail_error(name: &str, message: String) -> InputError {
+fn rail_error_at(field: &'static str, name: &str, message: String) -> InputError {
     let name: String = name.chars().take(40).collect();
-    InputError::new("rails", format!("Rail \"{name}\": {message}"))
+    InputError::new(field, format!("Rail \"{name}\": {message}"))
 }
 
 impl TreeInput {
@@ -521,31 +567,62 @@ impl TreeInput {
         };
         let s = &self.source;
         if s.name.trim().is_empty() {
-            return Err(InputError::new("source", "The source needs a name"));
+            return Err(InputError::new(
+                "sources[0].name",
+                "The source needs a name",
+            ));
         }
         let v_min = check::above(
-            "source",
+            "sources[0].vMin",
             "The source's lowest voltage",
             s.v_min,
             0.0,
             Voltage,
         )?;
-        let v_nom = check::finite("source", "The source's nominal voltage", s.v_nom, Voltage)?;
-        let v_max = check::finite("source", "The source's highest voltage", s.v_max, Voltage)?;
+        let v_nom = check::finite(
+            "sources[0].vNom",
+            "The source's nominal voltage",
+            s.v_nom,
+            Voltage,
+        )?;
+        let v_max = check::finite(
+            "sources[0].vMax",
+            "The source's highest voltage",
+            s.v_max,
+            Voltage,
+        )?;
         if !(v_min <= v_nom && v_nom <= v_max) {
             return Err(InputError::new(
-                "source",
+                "sources[0].vNom",
                 "The source's voltages must run lowest ≤ nominal ≤ highest",
             ));
         }
         if let Some(c) = s.capacity_ah {
-            check::above("source", "The source's capacity", c, 0.0, BatteryCharge)?;
+            check::above(
+                "sources[0].capacityAh",
+                "The source's capacity",
+                c,
+                0.0,
+                BatteryCharge,
+            )?;
         }
         if let Some(c) = s.capacity_wh {
-            check::above("source", "The source's capacity", c, 0.0, Energy)?;
+            check::above(
+                "sources[0].capacityWh",
+                "The source's capacity",
+                c,
+                0.0,
+                Energy,
+            )?;
         }
         if let Some(c) = s.current_limit_a {
-            check::above("source", "The source's current limit", c, 0.0, Current)?;
+            check::above(
+                "sources[0].currentLimitA",
+                "The source's current limit",
+                c,
+                0.0,
+                Current,
+            )?;
         }
         check::within(
             "taMax",
@@ -639,17 +716,19 @@ impl TreeInput {
         let mut estimates = alloc::vec![None; self.rails.len()];
         for &i in &order {
             let r = &self.rails[i];
-            let bad = |m: &str| rail_error(&r.name, String::from(m));
+            let bad = |field, m: &str| rail_error_at(field, &r.name, String::from(m));
             let from = parent[i].map_or(v_max, |p| highest[p]);
-            let positive = |v: Option<f64>, what: &str, kind| -> Result<f64, InputError> {
-                let v = v.ok_or_else(|| rail_error(&r.name, format!("{what} is needed")))?;
-                check::above("rails", what, v, 0.0, kind).map_err(|e| on_rail(&r.name, e))
+            let positive = |field, v: Option<f64>, what: &str, kind| -> Result<f64, InputError> {
+                let v =
+                    v.ok_or_else(|| rail_error_at(field, &r.name, format!("{what} is needed")))?;
+                check::above(field, what, v, 0.0, kind).map_err(|e| on_rail(&r.name, e))
             };
             match r.kind {
                 RailKind::Linear => {
-                    let vout = positive(r.vout, "V_out", Voltage)?;
+                    let vout = positive("rails.vout", r.vout, "V_out", Voltage)?;
                     if vout >= from {
-                        return Err(rail_error(
+                        return Err(rail_error_at(
+                            "rails.vout",
                             &r.name,
                             format!(
                                 "a linear regulator cannot give {} from a parent of at most {}",
@@ -658,14 +737,23 @@ impl TreeInput {
                             ),
                         ));
                     }
-                    check::at_least("rails", "V_do", r.dropout_v.unwrap_or(0.0), 0.0, Voltage)
-                        .map_err(|e| on_rail(&r.name, e))?;
+                    check::at_least(
+                        "rails.dropoutV",
+                        "V_do",
+                        r.dropout_v.unwrap_or(0.0),
+                        0.0,
+                        Voltage,
+                    )
+                    .map_err(|e| on_rail(&r.name, e))?;
                     if r.dropout_model == Some(DropoutModel::Resistive) {
                         let at = r.dropout_at_a.ok_or_else(|| {
-                            bad("a resistive dropout needs the current it is rated at")
+                            bad(
+                                "rails.dropoutAtA",
+                                "a resistive dropout needs the current it is rated at",
+                            )
                         })?;
                         check::at_least(
-                            "rails",
+                            "rails.dropoutAtA",
                             "The current the dropout is rated at",
                             at,
                             1e-9,
@@ -673,14 +761,24 @@ impl TreeInput {
                         )
                         .map_err(|e| on_rail(&r.name, e))?;
                     }
-                    let within = |v: Option<f64>, what: &str, to: f64| {
-                        check::within("rails", what, v.unwrap_or(0.0), 0.0, to, Percent)
+                    let within = |field, v: Option<f64>, what: &str, to: f64| {
+                        check::within(field, what, v.unwrap_or(0.0), 0.0, to, Percent)
                             .map_err(|e| on_rail(&r.name, e))
                     };
-                    within(r.gnd_pct, "The load-dependent ground current", 50.0)?;
-                    within(r.vout_tol_pct, "The V_out tolerance", 20.0)?;
+                    within(
+                        "rails.gndPct",
+                        r.gnd_pct,
+                        "The load-dependent ground current",
+                        50.0,
+                    )?;
+                    within(
+                        "rails.voutTolPct",
+                        r.vout_tol_pct,
+                        "The V_out tolerance",
+                        20.0,
+                    )?;
                     check::at_least(
-                        "rails",
+                        "rails.headroomMarginV",
                         "The headroom margin",
                         r.headroom_margin_v.unwrap_or(0.0),
                         0.0,
@@ -688,7 +786,7 @@ impl TreeInput {
                     )
                     .map_err(|e| on_rail(&r.name, e))?;
                     check::at_least(
-                        "rails",
+                        "rails.thermalMarginC",
                         "The thermal margin",
                         r.thermal_margin_c.unwrap_or(0.0),
                         0.0,
@@ -698,18 +796,29 @@ impl TreeInput {
                     highest[i] = vout;
                 }
                 RailKind::Switching => {
-                    let vout = positive(r.vout, "V_out", Voltage)?;
+                    let vout = positive("rails.vout", r.vout, "V_out", Voltage)?;
                     highest[i] = vout;
                     match &r.estimate {
                         None => {
-                            let eta = positive(r.efficiency_pct, "The efficiency", Percent)?;
-                            if eta > 100.0 {
-                                return Err(bad("the efficiency must not be above 100 %"));
+                            let eta = positive(
+                                "rails.efficiencyPct",
+                                r.efficiency_pct,
+                                "The efficiency",
+                                Percent,
+                            )?;
+                            // Below 1 % no converter runs, and the input current would be
+                            // unbounded.
+                            if !(1.0..=100.0).contains(&eta) {
+                                return Err(bad(
+                                    "rails.efficiencyPct",
+                                    "the efficiency must be between 1 % and 100 %",
+                                ));
                             }
                         }
                         Some(est) => {
                             if est.inductance.is_none() {
                                 return Err(bad(
+                                    "rails.inductance",
                                     "an estimate from parts needs the inductance L (the tree proposes none)",
                                 ));
                             }
@@ -717,7 +826,8 @@ impl TreeInput {
                             // must stay above whatever its parent gives.
                             let boost = est.topology == Topology::Boost;
                             if boost && vout <= from {
-                                return Err(rail_error(
+                                return Err(rail_error_at(
+                                    "rails.vout",
                                     &r.name,
                                     format!(
                                         "a boost cannot give {} from a parent that reaches {}",
@@ -727,7 +837,8 @@ impl TreeInput {
                                 ));
                             }
                             if est.topology == Topology::Buck && vout >= from {
-                                return Err(rail_error(
+                                return Err(rail_error_at(
+                                    "rails.vout",
                                     &r.name,
                                     format!(
                                         "a buck cannot give {} from a parent of at most {}",
@@ -747,22 +858,23 @@ impl TreeInput {
                     }
                 }
                 RailKind::Switch => {
-                    check::at_least("rails", "R_on", r.r_on.unwrap_or(0.0), 0.0, Resistance)
+                    check::at_least("rails.rOn", "R_on", r.r_on.unwrap_or(0.0), 0.0, Resistance)
                         .map_err(|e| on_rail(&r.name, e))?;
                     highest[i] = from;
                 }
             }
-            check::at_least("rails", "I_q", r.iq.unwrap_or(0.0), 0.0, Current)
+            check::at_least("rails.iq", "I_q", r.iq.unwrap_or(0.0), 0.0, Current)
                 .map_err(|e| on_rail(&r.name, e))?;
             if let Some(t) = r.theta_ja {
                 // The linear check's own floor: below 1 mK/W nothing on a board conducts heat.
-                check::at_least("rails", "θJA", t, 1e-3, ThermalResistance)
+                check::at_least("rails.thetaJa", "θJA", t, 1e-3, ThermalResistance)
                     .map_err(|e| on_rail(&r.name, e))?;
                 let tj = r.tj_max.unwrap_or(125.0);
-                check::within("rails", "T_j,max", tj, -100.0, 250.0, Temperature)
+                check::within("rails.tjMax", "T_j,max", tj, -100.0, 250.0, Temperature)
                     .map_err(|e| on_rail(&r.name, e))?;
                 if tj <= self.ta_max {
-                    return Err(rail_error(
+                    return Err(rail_error_at(
+                        "rails.tjMax",
                         &r.name,
                         format!(
                             "T_j,max {} must be above the hottest ambient {}",
@@ -773,39 +885,39 @@ impl TreeInput {
                 }
             }
             if let Some(a) = r.rated_a {
-                check::above("rails", "The rated current", a, 0.0, Current)
+                check::above("rails.ratedA", "The rated current", a, 0.0, Current)
                     .map_err(|e| on_rail(&r.name, e))?;
             }
         }
         for l in &self.loads {
             let name: String = l.name.chars().take(40).collect();
             let err =
-                |e: InputError| InputError::new("loads", format!("Load \"{name}\": {}", e.message));
+                |e: InputError| InputError::new(e.field, format!("Load \"{name}\": {}", e.message));
             let currents = l.typ_a.is_some() || l.peak_a.is_some();
             let powers = l.typ_w.is_some() || l.peak_w.is_some();
             if currents == powers {
                 return Err(err(InputError::new(
-                    "loads",
+                    "loads.typA",
                     "give its typical and peak current, or its typical and peak power",
                 )));
             }
-            let (kind, typ, peak) = if currents {
-                (Current, l.typ_a, l.peak_a)
+            let (kind, typ, peak, typ_key, peak_key) = if currents {
+                (Current, l.typ_a, l.peak_a, "loads.typA", "loads.peakA")
             } else {
-                (Power, l.typ_w, l.peak_w)
+                (Power, l.typ_w, l.peak_w, "loads.typW", "loads.peakW")
             };
-            let typ = check::at_least("loads", "The typical draw", typ.unwrap_or(0.0), 0.0, kind)
+            let typ = check::at_least(typ_key, "The typical draw", typ.unwrap_or(0.0), 0.0, kind)
                 .map_err(err)?;
-            let peak = check::at_least("loads", "The peak draw", peak.unwrap_or(typ), 0.0, kind)
+            let peak = check::at_least(peak_key, "The peak draw", peak.unwrap_or(typ), 0.0, kind)
                 .map_err(err)?;
             if peak < typ {
                 return Err(err(InputError::new(
-                    "loads",
+                    peak_key,
                     "the peak draw must not be below the typical one",
                 )));
             }
             check::within(
-                "loads",
+                "loads.activityPct",
                 "The activity",
                 l.activity_pct.unwrap_or(100.0),
                 0.0,
@@ -814,7 +926,7 @@ impl TreeInput {
             )
             .map_err(err)?;
             check::at_least(
-                "loads",
+                "loads.sleepA",
                 "The sleep current",
                 l.sleep_a.unwrap_or(0.0),
                 0.0,

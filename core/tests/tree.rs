@@ -233,7 +233,7 @@ fn bad_trees_are_refused_naming_the_rail() {
         ),
         (
             Box::new(|t| t.rails[0].vout = Some(3.6)),
-            "rails",
+            "rails.vout",
             "cannot give",
         ),
         (
@@ -243,22 +243,38 @@ fn bad_trees_are_refused_naming_the_rail() {
         ),
         (
             Box::new(|t| t.loads[0].typ_w = Some(1.0)),
-            "loads",
+            "loads.typA",
             "current, or its typical and peak power",
         ),
         (
             Box::new(|t| t.loads[0].peak_a = Some(0.001)),
-            "loads",
+            "loads.peakA",
             "below the typical",
         ),
         (
             Box::new(|t| t.rails[2].efficiency_pct = Some(120.0)),
-            "rails",
-            "above 100 %",
+            "rails.efficiencyPct",
+            "between 1 % and 100 %",
+        ),
+        (
+            // A hostile-input corpus entry: 1e-308 % made the source current infinite.
+            Box::new(|t| t.rails[2].efficiency_pct = Some(1e-308)),
+            "rails.efficiencyPct",
+            "between 1 % and 100 %",
+        ),
+        (
+            Box::new(|t| t.rails[1].theta_ja = Some(-5.0)),
+            "rails.thetaJa",
+            "θJA",
+        ),
+        (
+            Box::new(|t| t.source.capacity_ah = Some(-1.0)),
+            "sources[0].capacityAh",
+            "capacity",
         ),
         (
             Box::new(|t| t.source.v_min = 15.0),
-            "source",
+            "sources[0].vNom",
             "lowest ≤ nominal ≤ highest",
         ),
         (

@@ -427,14 +427,19 @@ export class TreeElement extends HTMLElement {
 
   /** The cell an error belongs to: its path, or for a whole-list error the row its sentence names. */
   cellFor(field, message) {
+    // checkTree names a rail's or load's value by its column (`rails.vout`) and the row in its
+    // sentence (`Rail "3V3 LDO": …`); a whole-row problem by the list alone.
     const subject = subjectOf(message);
-    if (subject && (field === 'rails' || field === 'loads')) {
+    const m = /^(rails|loads)(?:\.(\w+))?$/.exec(field || '');
+    if (subject && m && subject[0] === m[1]) {
       const [list, name] = subject;
       const i = this.state[list].findIndex((r) => r.name.trim() === name);
       if (i >= 0) {
-        const key = list === 'loads' ? (/rail/.test(message) ? 'rail' : 'name')
-          : (/parent|cycle|feeds itself/.test(message) ? 'parent' : 'name');
-        return this.cells.get(`${list}[${i}].${key}`);
+        const key = m[2] || (list === 'loads' ? (/rail/.test(message) ? 'rail' : 'name')
+          : (/parent|cycle|feeds itself/.test(message) ? 'parent' : 'name'));
+        const cell = this.cells.get(`${list}[${i}].${key}`);
+        if (cell) return cell;
+        return this.cells.get(`${list}[${i}].name`);
       }
     }
     if (this.cells.has(field)) return this.cells.get(field);

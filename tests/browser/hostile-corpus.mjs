@@ -26,7 +26,7 @@
 export const SYMBOL = {
   voltage: 'V', current: 'A', resistance: 'Ω', power: 'W', temperature: '°C', temperatureDifference: 'K',
   thermalResistance: 'K/W', frequency: 'Hz', capacitance: 'F', inductance: 'H', time: 's', percent: '%',
-  charge: 'C', tempco: 'ppm/K', count: '',
+  charge: 'C', tempco: 'ppm/K', count: '', batteryCharge: 'Ah', energy: 'Wh',
 };
 
 /** The words a message uses for a kind (units.rs `noun`): each refusal must name the kind. */
@@ -35,7 +35,8 @@ export const NOUN = {
   temperature: 'a temperature', temperatureDifference: 'a temperature difference',
   thermalResistance: 'a thermal resistance', frequency: 'a frequency', capacitance: 'a capacitance',
   inductance: 'an inductance', time: 'a time', percent: 'a percentage', charge: 'a charge',
-  tempco: 'a temperature coefficient', count: 'a whole number',
+  tempco: 'a temperature coefficient', count: 'a whole number', batteryCharge: 'a battery capacity',
+  energy: 'an energy',
 };
 
 /** The kind's symbol ('' for a count or a text cell), and the same after a space. */

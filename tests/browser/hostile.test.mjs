@@ -81,7 +81,7 @@ async function typeCorpusInPage({ tag, corpus, skip, nouns }) {
   const all = [...el.querySelectorAll('.rn-field[data-key]')].map((root) => ({ root, key: root.dataset.key, input: root.querySelector('input, select') }));
   const fields = all.filter((f) => f.input && f.input.tagName === 'INPUT' && !f.input.disabled && !f.root.closest('[hidden]') && !skip.includes(f.key));
   const failures = [];
-  const notes = { cases: 0, sameComputed: 0, sameRefused: 0, numberComputed: 0, numberRefused: 0, numberRelated: 0, treeFixme: 0, treeInfinite: 0, fixed: 0, blankOmitted: 0, blankRefused: 0, refused: 0, text: 0 };
+  const notes = { cases: 0, sameComputed: 0, sameRefused: 0, numberComputed: 0, numberRefused: 0, numberRelated: 0, fixed: 0, blankOmitted: 0, blankRefused: 0, refused: 0, text: 0 };
   const INJECTED = 'img[src="x"], script:not([src]), svg[onload], [onerror], [onload], iframe';
   const badText = /\bNaN\b|Infinity/;
   const nonFinite = (v, path = 'result') => {
@@ -117,19 +117,8 @@ async function typeCorpusInPage({ tag, corpus, skip, nouns }) {
       kept: f.input.value === text,
     };
   };
-  // FIXME(tree, lead): checkTree names only "source", "rails" or "loads" as the field of a value
-  // it refuses (core/src/tree.rs), so the page puts a rail's or load's refusal at its name cell
-  // and a source's in the error list only, not at the cell that holds the value. Asserted as it
-  // is here; the fix: core names the column (`sources[0].vMin`, `rails.vout`, `loads.peakA`) and
-  // tree-widget.js's cellFor takes the row from the name in the sentence, as it does already.
-  const treeMisplaced = (f) => {
-    const m = /^(rails|loads)\[(\d+)\]\./.exec(f.key);
-    if (m) return Boolean(el.querySelector(`.rn-field[data-key="${m[1]}[${m[2]}].name"] .rn-msg`).textContent);
-    return f.key.startsWith('sources[0].') && /The source's/.test(el.querySelector('.rn-error-list')?.textContent || '');
-  };
   const placed = (f, seen) => {
     if (seen.msg) return 'here';
-    if (isTree && treeMisplaced(f)) return 'treeFixme';
     return seen.messages.replace(/\|/g, '') ? 'related' : 'nowhere';
   };
   const base = snapshot();
@@ -159,14 +148,7 @@ async function typeCorpusInPage({ tag, corpus, skip, nouns }) {
       if (!(names && /nan|inf/i.test(text)) && badText.test(text_)) fail('the page shows NaN or Infinity');
       if (!names && /0{16,}|9{16,}/.test(text_)) fail(`the page shows a number as a long run of digits: …${/.{0,40}(0{16,}|9{16,}).{0,20}/.exec(text_)[0]}…`);
       if (seen.messages.length > 2000) fail(`messages ${seen.messages.length} characters long`);
-      if (seen.nonFinite.length) {
-        // FIXME(tree, lead): checkTree takes any efficiency above 0 %, so 1e-308 % divides the
-        // source current into Infinity (core/src/tree.rs, RailKind::Switching in validate).
-        // Asserted as it is; the fix: check::within(…, 1.0, 100.0, Percent) there. The page
-        // shows no "Infinity" (formatQuantity prints a dash), which is checked above.
-        if (isTree && /^rails\[\d+\]\.efficiencyPct$/.test(f.key) && entry.class === 'number') notes.treeInfinite += 1;
-        else fail(`non-finite numbers in the result: ${seen.nonFinite.slice(0, 3).join(', ')}`);
-      }
+      if (seen.nonFinite.length) fail(`non-finite numbers in the result: ${seen.nonFinite.slice(0, 3).join(', ')}`);
       if (!seen.kept) fail('the field does not hold what was typed');
       if (names) {
         notes.text += 1;
@@ -193,7 +175,6 @@ async function typeCorpusInPage({ tag, corpus, skip, nouns }) {
         if (!ok) {
           const at = placed(f, seen);
           if (at === 'nowhere') fail('an error with no message at any field');
-          if (at === 'treeFixme') notes.treeFixme += 1;
         }
       } else if (entry.class === 'number') {
         // A relation between two fields (I_out,typ ≤ I_out,max; T_a < T_j) may be reported at
@@ -204,7 +185,6 @@ async function typeCorpusInPage({ tag, corpus, skip, nouns }) {
           notes.numberRefused += 1;
           if (!seen.invalid || !seen.bad || !seen.linked) fail('field not marked invalid');
         } else if (at === 'related') notes.numberRelated += 1;
-        else if (at === 'treeFixme') notes.treeFixme += 1;
         else fail('refused with no message at any field');
       }
       // Refused values are judged on their own (the widget reads every field afresh each
@@ -385,8 +365,6 @@ for (const calc of CALCULATORS) {
     t.diagnostic(`${calc.page}: ${perField} × ${tested.length} fields = ${notes.cases} typed cases; `
       + `refused with their message ${notes.refused}; valid spellings that computed ${notes.sameComputed}, refused by the calculator's range like their plain spelling ${notes.sameRefused}; `
       + `blank left out ${notes.blankOmitted}, blank refused ${notes.blankRefused}; extreme numbers computed ${notes.numberComputed}, refused at their field ${notes.numberRefused}, refused at the other field of a relation ${notes.numberRelated}`
-      + (notes.treeFixme ? `; FIXME(tree): refused by checkTree but not at the cell that holds the value ${notes.treeFixme}` : '')
-      + (notes.treeInfinite ? `; FIXME(tree): a result with Infinity in it ${notes.treeInfinite}` : '')
       + `; typed back to the good value and the first result computed again ${notes.fixed} times`
       + (notes.text ? `; name cells ${notes.text}` : '') + `; and a payload typed with locator.fill into ${filled} fields`);
     assert.deepEqual(problems, [], 'no page errors or console errors');

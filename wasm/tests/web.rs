@@ -361,7 +361,7 @@ fn tree_errors_name_the_list_and_the_rail() {
         "{message}"
     );
     let input = tree_demo();
-    set(&input, "version", 2.into());
+    set(&input, "version", 3.into());
     assert_eq!(thrown(railnote_wasm::check_tree(input)).0, "version");
     let input = tree_demo();
     let rail = get(&input, "rails").dyn_into::<Array>().unwrap().get(0);
