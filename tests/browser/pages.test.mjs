@@ -46,7 +46,7 @@ test('each page loads with status 200, no errors, nothing fetched from elsewhere
       text: document.body.innerText,
       links: [...document.querySelectorAll('a[href]')].map((a) => a.href).filter((h) => h.startsWith(location.origin)),
     }));
-    assert.equal(info.inline, 0, `${p}: no inline scripts (a strict CSP comes later)`);
+    assert.equal(info.inline, 0, `${p}: no inline scripts (the pages carry a CSP without unsafe-inline)`);
     assert.equal(info.handlers, 0, `${p}: no inline event handlers`);
     assert.ok(info.title.length > 5 && info.lang === 'en', `${p}: title and lang`);
     if (p !== 'reference.html') {
@@ -201,8 +201,10 @@ test('screenshots of linear.html, light and dark (for looking at)', async () => 
 });
 
 test('the pages work under a strict Content-Security-Policy with Trusted Types', async () => {
-  // The policy the site is meant to ship with; wasm-bindgen 0.2.130 glue needs only
-  // 'wasm-unsafe-eval' (see /work/shared/wasm-notes.md). Added here by intercepting the HTML.
+  // Every page carries the site's policy as a meta (csp.test.mjs checks it exactly); a host can
+  // add its own as a header, with what a meta cannot say (frame-ancestors). Both apply: this
+  // adds such a header by intercepting the HTML. wasm-bindgen 0.2.130 glue needs only
+  // 'wasm-unsafe-eval' (see /work/shared/wasm-notes.md).
   const policy = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self'; img-src 'self'; "
     + "object-src 'none'; base-uri 'none'; form-action 'none'; frame-ancestors 'self'; require-trusted-types-for 'script'";
   const { context, page, requests, problems } = await open(browser);
