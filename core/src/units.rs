@@ -607,6 +607,17 @@ fn push_fixed(out: &mut String, value: f64, decimals: usize) {
     }
 }
 
+/// The smallest mantissa written in fixed form: its 12 figures need at most 17 decimals, which
+/// [`push_fixed`] writes exactly (it scales by at most 10^22).
+const SMALLEST_FIXED: f64 = 1e-6;
+
+/// `value · 10^power` for any power an f64 can need (|power| ≤ 400), in two steps so that
+/// neither power of ten overflows or goes subnormal on its own.
+fn times_power_of_ten(value: f64, power: i32) -> f64 {
+    let half = power / 2;
+    value * libm::pow(10.0, f64::from(half)) * libm::pow(10.0, f64::from(power - half))
+}
+
 /// SI prefix symbols for powers of 1000 from femto to tera, as printed.
 const PRINT_PREFIXES: [(i32, &str); 10] = [
     (-15, "f"),
@@ -624,7 +635,9 @@ const PRINT_PREFIXES: [(i32, &str); 10] = [
 /// Write `value` of `kind` with `digits` significant figures (clamped to 1..=12) in engineering
 /// notation: `format_quantity(0.0123, QuantityKind::Current, 3)` is `"12.3 mA"`. A value that is
 /// not finite prints as an em dash, so nothing shows "NaN". Magnitudes beyond what the prefixes
-/// (or, for kinds without prefix, 10^15) cover are written with a power of ten, `1.2e18 °C`.
+/// (or, for kinds without prefix, 10^15) cover are written with a power of ten, `1.2e18 °C`, and
+/// so are those below 10^-6 of the smallest prefix (10^-6 of the unit without one):
+/// `3.2e-47 fV`, `5.0e-7 %`.
 pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
     let digits = digits.clamp(1, 12);
     let mut out = String::new();
@@ -656,9 +669,12 @@ pub fn format_quantity(value: f64, kind: QuantityKind, digits: u32) -> String {
             }
         }
         let mut exponent = 0;
-        if mantissa >= 1e15 {
+        // Beyond 10^15, and below 10^-6 of the smallest prefix (a fixed form would need more
+        // decimals than `push_fixed` writes exactly: 3e-62 V printed as "0.000…0 fV"), a power
+        // of ten.
+        if !(SMALLEST_FIXED..1e15).contains(&mantissa) {
             exponent = libm::floor(libm::log10(mantissa)) as i32;
-            mantissa /= libm::pow(10.0, f64::from(exponent));
+            mantissa = times_power_of_ten(mantissa, -exponent);
             if decimals_for(mantissa, digits).1 >= 10.0 {
                 exponent += 1;
                 mantissa /= 10.0;
