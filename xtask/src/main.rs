@@ -1,9 +1,11 @@
 //! railnote's automation, run as `cargo xtask <command>` (alias in .cargo/config.toml).
 //!
-//! Commands: build, serve [--port N], test, dist, bench. Std only, so that it compiles in seconds
-//! on a fresh machine; each command first installs what it needs where it can (see tools.rs).
+//! Commands: build, serve [--port N], test, dist, bench, fuzz [--seconds N] [target]. Std only,
+//! so that it compiles in seconds on a fresh machine; each command first installs what it needs
+//! where it can (see tools.rs).
 
 mod bench;
+mod fuzz;
 mod server;
 mod tools;
 mod util;
@@ -21,7 +23,9 @@ const USAGE: &str = "usage: cargo xtask <command>
   serve [--port N]   build, then serve site/ on 127.0.0.1 (default port 8000)
   test               every check CI runs, in order, stopping at the first failure
   dist               build, then copy the site to dist/railnote/ for a static host
-  bench              print sizes, page weight, page timings and native-vs-WASM speed";
+  bench              print sizes, page weight, page timings and native-vs-WASM speed
+  fuzz [--seconds N] [target]
+                     run the cargo-fuzz targets of fuzz/ (default 600 s each, all targets)";
 
 fn main() -> ExitCode {
     tools::prefer_cargo_bin_on_path();
@@ -32,6 +36,7 @@ fn main() -> ExitCode {
         Some("test") => test(),
         Some("dist") => dist(),
         Some("bench") => bench::bench(),
+        Some("fuzz") => fuzz::fuzz_command(&args[1..]),
         Some("help" | "--help" | "-h") => {
             println!("{USAGE}");
             Ok(())
@@ -185,6 +190,8 @@ enum Step {
     SiteBuild,
     NodeTests,
     BrowserTests,
+    /// The short fuzz run: a minute per target (xtask/src/fuzz.rs).
+    Fuzz,
 }
 
 const TEST_STEPS: &[(&str, Step)] = &[
@@ -215,6 +222,10 @@ const TEST_STEPS: &[(&str, Step)] = &[
     (
         "cargo test -p railnote-reference -- --nocapture (core vs ngspice)",
         Step::Cargo(&["test", "-p", "railnote-reference", "--", "--nocapture"]),
+    ),
+    (
+        "cargo fuzz: every target of fuzz/ for 60 s (stable, --sanitizer none)",
+        Step::Fuzz,
     ),
     (
         "cargo test -p railnote-wasm --target wasm32-unknown-unknown (headless Chromium)",
@@ -263,6 +274,7 @@ fn run_step(step: &Step) -> Result {
         Step::SiteBuild => build_site(),
         Step::NodeTests => node_tests(),
         Step::BrowserTests => browser_tests(),
+        Step::Fuzz => fuzz::short_run(),
     }
 }
 
