@@ -42,6 +42,13 @@ pub(crate) mod check {
     /// calculators form finite, far beyond any board-level value.
     pub const LIMIT: f64 = 1.0e6;
 
+    /// The smallest magnitude a non-zero input may have (femto, the smallest prefix the parser
+    /// reads). Together with [`LIMIT`] it keeps every quotient finite: a dropout, a power or an
+    /// efficiency of 1e-320 (which JSON and JS carry as numbers) made a bound, a needed θSA or a
+    /// rail's input current infinite (found by the fuzz targets, see
+    /// core/tests/fuzz_regressions.rs).
+    pub const SMALLEST: f64 = 1.0e-15;
+
     /// A limit as a message shows it: up to four significant figures, without trailing zeros
     /// ("0.001 K/W", not "0.001000 K/W"); limits are round numbers.
     #[inline(never)]
@@ -90,6 +97,15 @@ pub(crate) mod check {
             return Err(InputError::new(
                 field,
                 format!("{label} must be at most {}", show(LIMIT, kind)),
+            ));
+        }
+        if value != 0.0 && value.abs() < SMALLEST {
+            return Err(InputError::new(
+                field,
+                format!(
+                    "{label} must be 0 or at least {} in size",
+                    show(SMALLEST, kind)
+                ),
             ));
         }
         Ok(value)

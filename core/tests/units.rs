@@ -345,3 +345,32 @@ fn battery_capacity_in_ampere_hours_and_watt_hours() {
     assert_eq!(format_quantity(0.5, BatteryCharge, 3), "500 mAh");
     assert_eq!(format_quantity(84.0, Energy, 3), "84.0 Wh");
 }
+
+#[test]
+fn tiny_values_print_with_a_power_of_ten_and_read_back() {
+    // Found by the `units` fuzz target (fuzz/, input [44, 32, 47, 41, 2, 62, 250, 41, 51]):
+    // 3.157…e-62 V at two figures printed as "0.000…000 fV" (48 zeros), which reads back as 0;
+    // and below 10^-22 the fixed form was scaled wrongly (5e-23 K printed as 1e-23 K). A
+    // mantissa below 10^-3 of the smallest prefix (of the unit, without prefixes) is written
+    // with a power of ten, like the large end (`1.2e18 °C`).
+    let crash = f64::from_bits(u64::from_le_bytes([32, 47, 41, 2, 62, 250, 41, 51]));
+    let cases: &[(f64, QuantityKind, u32, &str)] = &[
+        (crash, Voltage, 2, "3.2e-47 fV"),
+        (5e-23, TemperatureDifference, 1, "5e-23 K"),
+        (5e-7, Percent, 2, "5.0e-7 %"),
+        (-2.5e-30, Current, 3, "-2.50e-15 fA"),
+        // A mantissa from 10^-3 up keeps its fixed form.
+        (1e-18, Current, 3, "0.00100 fA"),
+        (0.0004, TemperatureDifference, 3, "4.00e-4 K"),
+    ];
+    for &(value, kind, digits, want) in cases {
+        let text = format_quantity(value, kind, digits);
+        assert_eq!(text, want, "{value:e} {kind:?}");
+        let back = parse_quantity(&text, kind).unwrap_or_else(|e| panic!("{text}: {e}"));
+        let rel = 0.51 * 10f64.powi(1 - digits as i32);
+        assert!(
+            ((back - value) / value).abs() <= rel,
+            "{text} read back as {back:e}, not {value:e}"
+        );
+    }
+}

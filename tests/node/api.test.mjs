@@ -278,3 +278,14 @@ test('checkLinear bad inputs throw an Error naming the key', () => {
   assert.equal(tjMax, 125);
   throwsAt(() => checkLinear(missing), 'tjMax', 'missing key');
 });
+
+test('fuzz findings: a nameless key and sub-femto values are refused at a field', () => {
+  // Found by the fuzz targets (fuzz/, see DEVELOPERS.md "Fuzzing"). A key named "" threw an
+  // Error whose field was "" (nowhere to show it); it is now named by where it sits.
+  throwsAt(() => checkLinear({ ...demo, '': 1 }), 'input', 'a key without a name');
+  throwsAt(() => checkLinear({ ...demo, ' ': 1 }), 'input', 'a key of one space');
+  // A dropout of 3.1e-322 V made the headroom bound Infinity; inputs below 1e-15 in size are
+  // now refused with a message (core/tests/fuzz_regressions.rs has the others).
+  const e = throwsAt(() => checkLinear({ ...demo, dropoutV: 3.1e-322 }), 'dropoutV', 'a subnormal dropout');
+  assert.match(e.message, /0 or at least 1 fV/);
+});

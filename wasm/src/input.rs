@@ -139,8 +139,15 @@ impl<'a> ObjectSource<'a> {
             None => Ok(()),
             Some(at) => {
                 let key: String = self.entries[at].0.chars().take(40).collect();
+                // A key without a name (`""`, spaces) is named by where it sits, so that the
+                // error still has a field (found by the tree_doc fuzz target).
+                let field = match (key.trim().is_empty(), self.path.is_empty()) {
+                    (false, _) => self.full(&key),
+                    (true, true) => String::from("input"),
+                    (true, false) => self.path.clone(),
+                };
                 Err(ReadError {
-                    field: self.full(&key),
+                    field,
                     message: format!(
                         "unknown input key `{key}`; expected one of {}",
                         self.asked.join(", ")

@@ -1,11 +1,13 @@
 //! railnote's automation, run as `cargo xtask <command>` (alias in .cargo/config.toml).
 //!
-//! Commands: build, serve [--port N], test, dist, bench. Std only, so that it compiles in seconds
-//! on a fresh machine; each command first installs what it needs where it can (see tools.rs).
+//! Commands: build, serve [--port N], test, dist, bench, fuzz [--seconds N] [target]. Std only,
+//! so that it compiles in seconds on a fresh machine; each command first installs what it needs
+//! where it can (see tools.rs).
 
 mod bench;
 mod encode;
 mod flatten;
+mod fuzz;
 mod offline;
 mod server;
 mod single;
@@ -26,7 +28,9 @@ const USAGE: &str = "usage: cargo xtask <command>
   test               every check CI runs, in order, stopping at the first failure
   dist               build, then copy the site to dist/railnote/ for a static host and write
                      one self-contained file per page and one for the whole site to dist/single/
-  bench              print sizes, page weight, page timings and native-vs-WASM speed";
+  bench              print sizes, page weight, page timings and native-vs-WASM speed
+  fuzz [--seconds N] [target]
+                     run the cargo-fuzz targets of fuzz/ (default 600 s each, all targets)";
 
 fn main() -> ExitCode {
     tools::prefer_cargo_bin_on_path();
@@ -37,6 +41,7 @@ fn main() -> ExitCode {
         Some("test") => test(),
         Some("dist") => dist(),
         Some("bench") => bench::bench(),
+        Some("fuzz") => fuzz::fuzz_command(&args[1..]),
         Some("help" | "--help" | "-h") => {
             println!("{USAGE}");
             Ok(())
@@ -196,6 +201,8 @@ enum Step {
     SiteBuild,
     NodeTests,
     BrowserTests,
+    /// The short fuzz run: a minute per target (xtask/src/fuzz.rs).
+    Fuzz,
 }
 
 const TEST_STEPS: &[(&str, Step)] = &[
@@ -226,6 +233,10 @@ const TEST_STEPS: &[(&str, Step)] = &[
     (
         "cargo test -p railnote-reference -- --nocapture (core vs ngspice)",
         Step::Cargo(&["test", "-p", "railnote-reference", "--", "--nocapture"]),
+    ),
+    (
+        "cargo fuzz: every target of fuzz/ for 60 s (stable, --sanitizer none)",
+        Step::Fuzz,
     ),
     (
         "cargo test -p railnote-wasm --target wasm32-unknown-unknown (headless Chromium)",
@@ -274,6 +285,7 @@ fn run_step(step: &Step) -> Result {
         Step::SiteBuild => build_site(),
         Step::NodeTests => node_tests(),
         Step::BrowserTests => browser_tests(),
+        Step::Fuzz => fuzz::short_run(),
     }
 }
 

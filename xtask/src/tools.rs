@@ -68,6 +68,7 @@ pub fn ensure_test_tools() -> Result {
     ensure_build_tools()?;
     ensure_rustfmt()?;
     ensure_python_packages()?;
+    ensure_fuzz_tools()?;
     Ok(())
 }
 
@@ -474,4 +475,53 @@ version = "0.3.80"
         );
         let _ = fs::remove_dir_all(&dir);
     }
+}
+
+/// The cargo-fuzz release the fuzz targets are run with (fuzz/, `cargo xtask fuzz`).
+pub const CARGO_FUZZ_VERSION: &str = "0.13.2";
+
+/// cargo-fuzz at [`CARGO_FUZZ_VERSION`] (installed from crates.io when missing or different,
+/// like the wasm-bindgen CLI) and a C++ compiler, which libfuzzer-sys needs to build libFuzzer.
+pub fn ensure_fuzz_tools() -> Result {
+    util::header("tools: checking the fuzzing tools (cargo-fuzz, a C++ compiler)");
+    if !["c++", "g++", "clang++"].iter().any(|c| util::on_path(c)) {
+        if !is_root() {
+            return Err(
+                "a C++ compiler is needed to build libFuzzer: `sudo apt-get install -y g++`".into(),
+            );
+        }
+        apt_install(&["g++"])?;
+    }
+    let want = CARGO_FUZZ_VERSION;
+    // `cargo fuzz --version` prints "cargo-fuzz 0.13.2".
+    let have = || {
+        probe("cargo", &["fuzz", "--version"])
+            .and_then(|o| reported_version(&o).map(str::to_string))
+    };
+    if have().as_deref() == Some(want) {
+        println!("ok: cargo-fuzz {want}");
+        return Ok(());
+    }
+    println!(
+        "cargo-fuzz must be {want}; found {}. Installing it (takes a minute or two).",
+        have().as_deref().unwrap_or("none")
+    );
+    let install = |locked: bool| {
+        let mut cmd = crate::cargo();
+        cmd.args(["install", "cargo-fuzz", "--version", want, "--force"]);
+        if locked {
+            cmd.arg("--locked");
+        }
+        run(&mut cmd)
+    };
+    // --locked builds with the versions cargo-fuzz was released with; where that fails, without.
+    let installed = install(true).or_else(|_| install(false));
+    if installed.is_ok() && have().as_deref() == Some(want) {
+        return Ok(());
+    }
+    Err(format!(
+        "cargo-fuzz {want} is needed. Install it with `cargo install cargo-fuzz --version {want}` \
+         and make sure {} is on PATH",
+        cargo_bin_dir().map_or("cargo's bin folder".into(), |p| p.display().to_string())
+    ))
 }
