@@ -107,3 +107,14 @@ macro_rules! out_words {
 
 pub(crate) use out_object;
 pub(crate) use out_words;
+
+/// Whether any number in the tree is NaN or infinite (a report promises finite numbers; the
+/// tree's validation refuses one that is not).
+pub fn has_non_finite(out: &Out) -> bool {
+    match out {
+        Out::Number(n) => !n.is_finite(),
+        Out::List(items) => items.iter().any(has_non_finite),
+        Out::Object(fields) => fields.iter().any(|(_, v)| has_non_finite(v)),
+        _ => false,
+    }
+}

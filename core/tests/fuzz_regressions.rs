@@ -99,12 +99,7 @@ fn assert_refused(result: Result<impl Sized, railnote_core::InputError>, field: 
 }
 
 fn has_non_finite(out: &Out) -> bool {
-    match out {
-        Out::Number(n) => !n.is_finite(),
-        Out::List(items) => items.iter().any(has_non_finite),
-        Out::Object(fields) => fields.iter().any(|(_, v)| has_non_finite(v)),
-        _ => false,
-    }
+    railnote_core::output::has_non_finite(out)
 }
 
 #[test]
@@ -155,51 +150,43 @@ fn tree_a_subnormal_efficiency_is_refused() {
     );
     assert_refused(
         check_tree(&input),
-        "rails",
+        "rails.efficiencyPct",
         "efficiency must be 0 or at least",
     );
 }
 
 #[test]
-fn tree_nested_lossy_rails_still_overflow() {
+fn tree_nested_lossy_rails_overflowing_are_refused() {
     // Bounds on each input cannot keep a tree finite: currents multiply down a chain of rails.
     // 200 switching rails in a row at 1 % (each draws 100 times its output current at equal
-    // voltages) need 100^200 = 10^400 times the load current at the source.
-    // FIXME(core/src/tree.rs): validation should refuse a tree whose solution is not finite
-    // (as the divider's validation runs its search): compute the corners in `validate`, keep
-    // them in `ValidTree`, and refuse with `rails` "The currents grow past any usable number
-    // through nested rails…" when any figure is not finite. Then this test asserts that
-    // refusal instead.
+    // voltages) need 100^200 = 10^400 times the load current at the source. Validation solves
+    // the tree and refuses one whose figures are not finite, naming the rails list.
     let rails = (0..200)
         .map(|k| RailSpec {
-            name: format!("R{k}"),
-            parent: if k == 0 {
-                "Source".into()
-            } else {
-                format!("R{}", k - 1)
-            },
-            kind: RailKind::Switching,
             vout: Some(5.0),
             efficiency_pct: Some(1.0),
-            iq: None,
-            dropout_v: None,
-            r_on: None,
-            theta_ja: None,
-            tj_max: None,
-            rated_a: None,
+            ..RailSpec::new(
+                &format!("R{k}"),
+                &if k == 0 {
+                    String::from("Source")
+                } else {
+                    format!("R{}", k - 1)
+                },
+                RailKind::Switching,
+            )
         })
-        .collect();
+        .collect::<Vec<_>>();
     let input = TreeInput {
         source: SourceSpec {
             name: "Source".into(),
             v_min: 4.0,
             v_nom: 5.0,
             v_max: 6.0,
-            capacity_mah: None,
+            capacity_ah: None,
             capacity_wh: None,
             current_limit_a: None,
         },
-        rails,
+        rails: rails.clone(),
         loads: vec![tree::LoadSpec {
             name: "Load".into(),
             rail: "R199".into(),
@@ -212,9 +199,18 @@ fn tree_nested_lossy_rails_still_overflow() {
         }],
         ta_max: 40.0,
     };
-    let report = check_tree(&input).expect("accepted today (the FIXME above)");
+    let e = check_tree(&input).expect_err("a chain whose currents overflow");
+    assert_eq!(e.field, "rails");
     assert!(
-        has_non_finite(&report.to_out()),
-        "the chain no longer overflows: update this test to the refusal"
+        e.message.contains("past any usable number"),
+        "{}",
+        e.message
     );
+    // The same chain at 90 % stays finite (1.11^200 ≈ 10^9) and computes.
+    let mut fine = input;
+    for r in &mut fine.rails {
+        r.efficiency_pct = Some(90.0);
+    }
+    let report = check_tree(&fine).expect("a finite chain");
+    assert!(!has_non_finite(&report.to_out()));
 }

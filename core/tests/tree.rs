@@ -260,6 +260,12 @@ fn bad_trees_are_refused_naming_the_rail() {
             // A hostile-input corpus entry: 1e-308 % made the source current infinite.
             Box::new(|t| t.rails[2].efficiency_pct = Some(1e-308)),
             "rails.efficiencyPct",
+            "The efficiency must be 0 or at least",
+        ),
+        (
+            // No converter runs below 1 %.
+            Box::new(|t| t.rails[2].efficiency_pct = Some(0.5)),
+            "rails.efficiencyPct",
             "between 1 % and 100 %",
         ),
         (

@@ -332,6 +332,8 @@ pub fn demos(json: &str) -> Vec<Value> {
 /// Words the editor may put where a word was: every choice any calculator reads, and near
 /// misses.
 const WORDS: &[&str] = &[
+    "fixed",
+    "estimate",
     "resistive",
     "constant",
     "classic",
@@ -426,6 +428,10 @@ pub fn kind_for_key(key: &str) -> QuantityKind {
         || k.ends_with("c") && k.len() > 1 && !k.ends_with("dc")
     {
         Temperature
+    } else if k.ends_with("wh") {
+        Energy
+    } else if k.ends_with("ah") {
+        BatteryCharge
     } else if k.ends_with("w") || k.contains("loss") {
         Power
     } else if k.contains("time") || k.ends_with("s") || k == "tau" {
