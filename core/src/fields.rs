@@ -11,6 +11,7 @@
 
 use alloc::format;
 use alloc::string::String;
+use alloc::vec::Vec;
 
 /// A value that could not be read: the path to it (`"vinMin"`, `"foster[2].tau"`) and why.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -121,4 +122,168 @@ fn expected_one_of<T>(options: &[(&str, T)]) -> String {
         out.push_str(&format!("\"{name}\""));
     }
     out
+}
+
+/// A plain input value: what a calculator's input object holds once copied out of whatever
+/// carried it (the wasm crate copies a JS object into it; the fuzz targets build it from JSON).
+/// Read through [`ObjectSource`] with [`read_value`], by one set of rules for every caller: null
+/// is absent, a wrong type names what it found, a key nobody asked for is refused.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Value {
+    Null,
+    Bool(bool),
+    Number(f64),
+    Text(String),
+    List(Vec<Value>),
+    Object(Vec<(String, Value)>),
+    /// A function, symbol, bigint or anything else no input has.
+    Unsupported,
+    /// Nested deeper than the copier allows.
+    TooDeep,
+}
+
+fn kind_of(value: &Value) -> &'static str {
+    match value {
+        Value::Null => "nothing (null)",
+        Value::Bool(_) => "true or false",
+        Value::Number(_) => "a number",
+        Value::Text(_) => "text",
+        Value::List(_) => "a list",
+        Value::Object(_) => "an object",
+        Value::Unsupported => "a function, symbol or other value that no input takes",
+        Value::TooDeep => "values nested too deep",
+    }
+}
+
+/// Core's `FieldSource` over one object of the [`Value`] tree, remembering which keys were
+/// asked for and which entries were used.
+#[derive(Debug)]
+pub struct ObjectSource<'a> {
+    entries: &'a [(String, Value)],
+    used: Vec<bool>,
+    asked: Vec<&'static str>,
+    /// "" at the top, "foster[2]" inside a list item.
+    path: String,
+}
+
+impl<'a> ObjectSource<'a> {
+    pub fn new(value: &'a Value, path: String) -> Result<Self, ReadError> {
+        match value {
+            Value::Object(entries) => Ok(ObjectSource {
+                entries,
+                used: alloc::vec![false; entries.len()],
+                asked: Vec::new(),
+                path,
+            }),
+            other => Err(ReadError {
+                field: if path.is_empty() {
+                    String::from("input")
+                } else {
+                    path.clone()
+                },
+                message: format!("expected an object, found {}", kind_of(other)),
+            }),
+        }
+    }
+
+    fn full(&self, key: &str) -> String {
+        if self.path.is_empty() {
+            String::from(key)
+        } else {
+            format!("{}.{key}", self.path)
+        }
+    }
+
+    fn find(&mut self, key: &'static str) -> Option<&'a Value> {
+        self.asked.push(key);
+        let at = self.entries.iter().position(|(k, _)| k == key)?;
+        self.used[at] = true;
+        match &self.entries[at].1 {
+            Value::Null => None,
+            value => Some(value),
+        }
+    }
+
+    /// After reading: refuse the first entry nobody asked for.
+    pub fn finish(self) -> Result<(), ReadError> {
+        match self.used.iter().position(|used| !used) {
+            None => Ok(()),
+            Some(at) => {
+                let key: String = self.entries[at].0.chars().take(40).collect();
+                // A key without a name (`""`, spaces) is named by where it sits, so that the
+                // error still has a field (found by the tree_doc fuzz target).
+                let field = match (key.trim().is_empty(), self.path.is_empty()) {
+                    (false, _) => self.full(&key),
+                    (true, true) => String::from("input"),
+                    (true, false) => self.path.clone(),
+                };
+                Err(ReadError {
+                    field,
+                    message: format!(
+                        "unknown input key `{key}`; expected one of {}",
+                        self.asked.join(", ")
+                    ),
+                })
+            }
+        }
+    }
+}
+
+impl FieldSource for ObjectSource<'_> {
+    fn number(&mut self, key: &'static str) -> Result<Option<f64>, ReadError> {
+        match self.find(key) {
+            None => Ok(None),
+            Some(Value::Number(n)) => Ok(Some(*n)),
+            Some(other) => {
+                Err(self.error(key, format!("expected a number, found {}", kind_of(other))))
+            }
+        }
+    }
+
+    fn text(&mut self, key: &'static str) -> Result<Option<String>, ReadError> {
+        match self.find(key) {
+            None => Ok(None),
+            Some(Value::Text(s)) => Ok(Some(s.clone())),
+            Some(other) => Err(self.error(key, format!("expected text, found {}", kind_of(other)))),
+        }
+    }
+
+    fn each_object(
+        &mut self,
+        key: &'static str,
+        item: &mut dyn FnMut(&mut dyn FieldSource) -> Result<(), ReadError>,
+    ) -> Result<(), ReadError> {
+        match self.find(key) {
+            None => Ok(()),
+            Some(Value::List(items)) => {
+                for (i, value) in items.iter().enumerate() {
+                    let mut source = ObjectSource::new(value, format!("{}[{i}]", self.full(key)))?;
+                    item(&mut source)?;
+                    source.finish()?;
+                }
+                Ok(())
+            }
+            Some(other) => {
+                Err(self.error(key, format!("expected a list, found {}", kind_of(other))))
+            }
+        }
+    }
+
+    fn error(&self, key: &str, message: String) -> ReadError {
+        ReadError {
+            field: self.full(key),
+            message,
+        }
+    }
+}
+
+/// Read an input from a [`Value`] with its type's `read`, refusing keys it did not ask for.
+pub fn read_value<T>(
+    value: &Value,
+    reader: fn(&mut dyn FieldSource) -> Result<T, ReadError>,
+) -> Result<T, ReadError> {
+    let mut source = ObjectSource::new(value, String::new())?;
+    let input = reader(&mut source)?;
+    source.finish()?;
+    Ok(input)
 }

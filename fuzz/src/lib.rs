@@ -1,5 +1,5 @@
-//! What railnote's fuzz targets share: a plain value tree and core's `FieldSource` over it (the
-//! same rules as the wasm crate's reader), the structured editor that turns fuzz bytes into a
+//! What railnote's fuzz targets share: core's plain value tree read by core's `ObjectSource` (the
+//! very reader the wasm crate uses), the structured editor that turns fuzz bytes into a
 //! calculator's input object, and the invariants every target asserts.
 //!
 //! # Why structured inputs for the calculators
@@ -18,207 +18,64 @@
 //! from raw JSON bytes, because that is what a pasted or imported file is.
 
 use arbitrary::Unstructured;
-use railnote_core::fields::{FieldSource, ReadError};
+pub use railnote_core::fields::Value;
+use railnote_core::fields::{read_value, FieldSource, ReadError};
 use railnote_core::output::Out;
 use railnote_core::units::{format_quantity, parse_quantity, QuantityKind};
 
-/// A plain input value, like the wasm crate's copy of a JS object, except that a number may be
-/// anything an f64 holds (JS hands the module NaN and ±∞ as numbers too).
-#[derive(Clone, Debug, PartialEq)]
-pub enum Value {
-    Null,
-    Bool(bool),
-    Number(f64),
-    Text(String),
-    List(Vec<Value>),
-    Object(Vec<(String, Value)>),
-}
-
-impl Value {
-    pub fn from_json(v: &serde_json::Value) -> Value {
-        match v {
-            serde_json::Value::Null => Value::Null,
-            serde_json::Value::Bool(b) => Value::Bool(*b),
-            serde_json::Value::Number(n) => Value::Number(n.as_f64().unwrap_or(f64::NAN)),
-            serde_json::Value::String(s) => Value::Text(s.clone()),
-            serde_json::Value::Array(items) => {
-                Value::List(items.iter().map(Value::from_json).collect())
-            }
-            serde_json::Value::Object(map) => Value::Object(
-                map.iter()
-                    .map(|(k, v)| (k.clone(), Value::from_json(v)))
-                    .collect(),
-            ),
-        }
-    }
-
-    /// The value as JSON text, with non-finite numbers as the words JS would print: for showing
-    /// a failing input (`RAILNOTE_FUZZ_SHOW=1`) and for turning it into a regression test.
-    pub fn to_text(&self) -> String {
-        let mut out = String::new();
-        self.write(&mut out);
-        out
-    }
-
-    fn write(&self, out: &mut String) {
-        match self {
-            Value::Null => out.push_str("null"),
-            Value::Bool(b) => out.push_str(if *b { "true" } else { "false" }),
-            Value::Number(n) if n.is_finite() => out.push_str(&format!("{n:?}")),
-            Value::Number(n) => out.push_str(&format!("\"<{n}>\"")),
-            Value::Text(s) => out.push_str(&serde_json::Value::String(s.clone()).to_string()),
-            Value::List(items) => {
-                out.push('[');
-                for (i, item) in items.iter().enumerate() {
-                    if i > 0 {
-                        out.push_str(", ");
-                    }
-                    item.write(out);
-                }
-                out.push(']');
-            }
-            Value::Object(entries) => {
-                out.push('{');
-                for (i, (k, v)) in entries.iter().enumerate() {
-                    if i > 0 {
-                        out.push_str(", ");
-                    }
-                    out.push_str(&serde_json::Value::String(k.clone()).to_string());
-                    out.push_str(": ");
-                    v.write(out);
-                }
-                out.push('}');
-            }
-        }
+/// A JSON value as core's plain input [`Value`] (the tree the wasm crate copies a JS object
+/// into; a number may be anything an f64 holds, as JS hands the module NaN and ±∞ too).
+pub fn value_from_json(v: &serde_json::Value) -> Value {
+    match v {
+        serde_json::Value::Null => Value::Null,
+        serde_json::Value::Bool(b) => Value::Bool(*b),
+        serde_json::Value::Number(n) => Value::Number(n.as_f64().unwrap_or(f64::NAN)),
+        serde_json::Value::String(s) => Value::Text(s.clone()),
+        serde_json::Value::Array(items) => Value::List(items.iter().map(value_from_json).collect()),
+        serde_json::Value::Object(map) => Value::Object(
+            map.iter()
+                .map(|(k, v)| (k.clone(), value_from_json(v)))
+                .collect(),
+        ),
     }
 }
 
-fn kind_of(value: &Value) -> &'static str {
+/// The value as JSON text, with non-finite numbers as the words JS would print: for showing
+/// a failing input (`RAILNOTE_FUZZ_SHOW=1`) and for turning it into a regression test.
+pub fn value_text(value: &Value) -> String {
+    let mut out = String::new();
+    write_value(value, &mut out);
+    out
+}
+
+fn write_value(value: &Value, out: &mut String) {
     match value {
-        Value::Null => "nothing (null)",
-        Value::Bool(_) => "true or false",
-        Value::Number(_) => "a number",
-        Value::Text(_) => "text",
-        Value::List(_) => "a list",
-        Value::Object(_) => "an object",
-    }
-}
-
-/// Core's `FieldSource` over one object, by the wasm crate's rules (`wasm/src/input.rs`): null
-/// is absent, a wrong type names what it found, a key nobody asked for is refused.
-pub struct Source<'a> {
-    entries: &'a [(String, Value)],
-    used: Vec<bool>,
-    asked: Vec<&'static str>,
-    path: String,
-}
-
-impl<'a> Source<'a> {
-    fn new(value: &'a Value, path: String) -> Result<Self, ReadError> {
-        match value {
-            Value::Object(entries) => Ok(Source {
-                entries,
-                used: vec![false; entries.len()],
-                asked: Vec::new(),
-                path,
-            }),
-            other => Err(ReadError {
-                field: if path.is_empty() {
-                    "input".into()
-                } else {
-                    path.clone()
-                },
-                message: format!("expected an object, found {}", kind_of(other)),
-            }),
-        }
-    }
-
-    fn full(&self, key: &str) -> String {
-        if self.path.is_empty() {
-            key.to_string()
-        } else {
-            format!("{}.{key}", self.path)
-        }
-    }
-
-    fn find(&mut self, key: &'static str) -> Option<&'a Value> {
-        self.asked.push(key);
-        let at = self.entries.iter().position(|(k, _)| k == key)?;
-        self.used[at] = true;
-        match &self.entries[at].1 {
-            Value::Null => None,
-            value => Some(value),
-        }
-    }
-
-    fn finish(self) -> Result<(), ReadError> {
-        match self.used.iter().position(|used| !used) {
-            None => Ok(()),
-            Some(at) => {
-                let key: String = self.entries[at].0.chars().take(40).collect();
-                // A key without a name (`""`, spaces) is named by where it sits, so that the
-                // error still has a field (found by the tree_doc fuzz target).
-                let field = match (key.trim().is_empty(), self.path.is_empty()) {
-                    (false, _) => self.full(&key),
-                    (true, true) => String::from("input"),
-                    (true, false) => self.path.clone(),
-                };
-                Err(ReadError {
-                    field,
-                    message: format!(
-                        "unknown input key `{key}`; expected one of {}",
-                        self.asked.join(", ")
-                    ),
-                })
-            }
-        }
-    }
-}
-
-impl FieldSource for Source<'_> {
-    fn number(&mut self, key: &'static str) -> Result<Option<f64>, ReadError> {
-        match self.find(key) {
-            None => Ok(None),
-            Some(Value::Number(n)) => Ok(Some(*n)),
-            Some(other) => {
-                Err(self.error(key, format!("expected a number, found {}", kind_of(other))))
-            }
-        }
-    }
-
-    fn text(&mut self, key: &'static str) -> Result<Option<String>, ReadError> {
-        match self.find(key) {
-            None => Ok(None),
-            Some(Value::Text(s)) => Ok(Some(s.clone())),
-            Some(other) => Err(self.error(key, format!("expected text, found {}", kind_of(other)))),
-        }
-    }
-
-    fn each_object(
-        &mut self,
-        key: &'static str,
-        item: &mut dyn FnMut(&mut dyn FieldSource) -> Result<(), ReadError>,
-    ) -> Result<(), ReadError> {
-        match self.find(key) {
-            None => Ok(()),
-            Some(Value::List(items)) => {
-                for (i, value) in items.iter().enumerate() {
-                    let mut source = Source::new(value, format!("{}[{i}]", self.full(key)))?;
-                    item(&mut source)?;
-                    source.finish()?;
+        Value::Null | Value::Unsupported | Value::TooDeep => out.push_str("null"),
+        Value::Bool(b) => out.push_str(if *b { "true" } else { "false" }),
+        Value::Number(n) if n.is_finite() => out.push_str(&format!("{n:?}")),
+        Value::Number(n) => out.push_str(&format!("\"<{n}>\"")),
+        Value::Text(s) => out.push_str(&serde_json::Value::String(s.clone()).to_string()),
+        Value::List(items) => {
+            out.push('[');
+            for (i, item) in items.iter().enumerate() {
+                if i > 0 {
+                    out.push_str(", ");
                 }
-                Ok(())
+                write_value(item, out);
             }
-            Some(other) => {
-                Err(self.error(key, format!("expected a list, found {}", kind_of(other))))
-            }
+            out.push(']');
         }
-    }
-
-    fn error(&self, key: &str, message: String) -> ReadError {
-        ReadError {
-            field: self.full(key),
-            message,
+        Value::Object(entries) => {
+            out.push('{');
+            for (i, (k, v)) in entries.iter().enumerate() {
+                if i > 0 {
+                    out.push_str(", ");
+                }
+                out.push_str(&serde_json::Value::String(k.clone()).to_string());
+                out.push_str(": ");
+                write_value(v, out);
+            }
+            out.push('}');
         }
     }
 }
@@ -229,12 +86,7 @@ pub fn read<T>(
     value: &Value,
     reader: fn(&mut dyn FieldSource) -> Result<T, ReadError>,
 ) -> Option<T> {
-    let result = Source::new(value, String::new()).and_then(|mut source| {
-        let input = reader(&mut source)?;
-        source.finish()?;
-        Ok(input)
-    });
-    match result {
+    match read_value(value, reader) {
         Ok(input) => Some(input),
         Err(e) => {
             assert_error(&e.field, &e.message, plain_texts(value));
@@ -323,7 +175,7 @@ pub fn near(a: f64, b: f64, rel: f64, floor: f64) -> bool {
 
 /// The demo variants of a calculator: a JSON list of input objects.
 pub fn demos(json: &str) -> Vec<Value> {
-    match Value::from_json(&serde_json::from_str(json).expect("a demo file is JSON")) {
+    match value_from_json(&serde_json::from_str(json).expect("a demo file is JSON")) {
         Value::List(items) => items,
         _ => panic!("a demo file holds a list of inputs"),
     }
@@ -644,7 +496,7 @@ pub fn structured_input(data: &[u8], demos: &[Value]) -> Value {
     let base = &demos[usize::from(variant) % demos.len()];
     let value = Editor::new(&mut u, base).edit(base);
     if std::env::var_os("RAILNOTE_FUZZ_SHOW").is_some() {
-        eprintln!("input: {}", value.to_text());
+        eprintln!("input: {}", value_text(&value));
     }
     value
 }
