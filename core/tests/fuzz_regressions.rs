@@ -1,91 +1,36 @@
 //! Inputs the fuzz targets (fuzz/, `cargo xtask fuzz`) found, each read from the JSON document
-//! the target built (printed with `RAILNOTE_FUZZ_SHOW=1`) through a serde_json-backed
-//! `FieldSource`, with the behaviour now expected. The quantity printer's finding is in
+//! the target built (printed with `RAILNOTE_FUZZ_SHOW=1`) through core's own reader
+//! (`fields::read_value`, as the wasm API reads it), with the behaviour now expected. The quantity printer's finding is in
 //! tests/units.rs (`tiny_values_print_with_a_power_of_ten_and_read_back`).
 //!
 //! What the finite-output promise rests on (DEVELOPERS.md, "No panic is reachable"): every input
 //! is at most 10^6 in its unit and, since these findings, 0 or at least 10^-15 (femto) in size,
 //! so no quotient of inputs overflows.
 
-use railnote_core::fields::{FieldSource, ReadError};
+use railnote_core::fields::{read_value, FieldSource, ReadError, Value};
 use railnote_core::output::{Out, ToOut};
 use railnote_core::tree::{check_tree, RailKind, RailSpec, SourceSpec, TreeInput};
 use railnote_core::{linear, thermal, tree};
-use serde_json::Value;
 
-/// Core's `FieldSource` over a JSON object (null is absent, as in the wasm reader).
-struct Json<'a> {
-    object: &'a serde_json::Map<String, Value>,
-    path: String,
-}
-
-impl Json<'_> {
-    fn get(&self, key: &str) -> Option<&Value> {
-        self.object.get(key).filter(|v| !v.is_null())
-    }
-}
-
-impl FieldSource for Json<'_> {
-    fn number(&mut self, key: &'static str) -> Result<Option<f64>, ReadError> {
-        match self.get(key) {
-            None => Ok(None),
-            Some(v) => v
-                .as_f64()
-                .map(Some)
-                .ok_or_else(|| self.error(key, "expected a number".into())),
+/// A JSON value as core's plain input tree (what the wasm crate copies a JS object into).
+fn value(json: &serde_json::Value) -> Value {
+    match json {
+        serde_json::Value::Null => Value::Null,
+        serde_json::Value::Bool(b) => Value::Bool(*b),
+        serde_json::Value::Number(n) => Value::Number(n.as_f64().unwrap_or(f64::NAN)),
+        serde_json::Value::String(s) => Value::Text(s.clone()),
+        serde_json::Value::Array(items) => Value::List(items.iter().map(value).collect()),
+        serde_json::Value::Object(map) => {
+            Value::Object(map.iter().map(|(k, v)| (k.clone(), value(v))).collect())
         }
-    }
-
-    fn text(&mut self, key: &'static str) -> Result<Option<String>, ReadError> {
-        match self.get(key) {
-            None => Ok(None),
-            Some(v) => v
-                .as_str()
-                .map(|s| Some(s.to_string()))
-                .ok_or_else(|| self.error(key, "expected text".into())),
-        }
-    }
-
-    fn each_object(
-        &mut self,
-        key: &'static str,
-        item: &mut dyn FnMut(&mut dyn FieldSource) -> Result<(), ReadError>,
-    ) -> Result<(), ReadError> {
-        let Some(list) = self.get(key) else {
-            return Ok(());
-        };
-        let list = list
-            .as_array()
-            .ok_or_else(|| self.error(key, "expected a list".into()))?;
-        for (i, v) in list.iter().enumerate() {
-            let path = format!("{key}[{i}]");
-            let object = v.as_object().ok_or_else(|| ReadError {
-                field: path.clone(),
-                message: "expected an object".into(),
-            })?;
-            item(&mut Json { object, path })?;
-        }
-        Ok(())
-    }
-
-    fn error(&self, key: &str, message: String) -> ReadError {
-        let field = if self.path.is_empty() {
-            key.to_string()
-        } else {
-            format!("{}.{key}", self.path)
-        };
-        ReadError { field, message }
     }
 }
 
+/// Read the input as the wasm API does (core's `read_value`: null is absent, unknown keys are
+/// refused).
 fn read<T>(json: &str, reader: fn(&mut dyn FieldSource) -> Result<T, ReadError>) -> T {
-    let doc: Value = serde_json::from_str(json).expect("the regression input is JSON");
-    let object = doc.as_object().expect("an input object");
-    reader(&mut Json {
-        object,
-        path: String::new(),
-    })
-    .expect("the input reads")
+    let doc: serde_json::Value = serde_json::from_str(json).expect("the regression input is JSON");
+    read_value(&value(&doc), reader).expect("the input reads")
 }
 
 fn assert_refused(result: Result<impl Sized, railnote_core::InputError>, field: &str, words: &str) {
