@@ -966,6 +966,26 @@ pub fn check_tree(input: &TreeInput) -> Result<TreeReport, InputError> {
     Ok(input.validate()?.into_report())
 }
 
+/// A check about `name` (a rail or the source), titled "<name> <what>" ("3V3 LDO headroom").
+#[inline(never)]
+fn check_of(name: &str, id: CheckId, what: &str, status: Status, text: String) -> Check {
+    Check {
+        id,
+        title: format!("{name} {what}"),
+        status,
+        text,
+    }
+}
+
+/// Pass or fail, for the checks that know no margin.
+fn passes(ok: bool) -> Status {
+    if ok {
+        Status::Pass
+    } else {
+        Status::Fail
+    }
+}
+
 /// A linear rail's dropout at output current `i`, by its dropout model (as the linear check).
 fn dropout_at(r: &RailSpec, i: f64) -> f64 {
     let v = r.dropout_v.unwrap_or(0.0);
@@ -1223,21 +1243,17 @@ impl ValidTree {
                         }
                         _ => continue,
                     };
-                    checks.push(Check {
-                        id,
-                        title: format!("{} {word}", r.name),
-                        status: c.status,
-                        text: c.text,
-                    });
+                    checks.push(check_of(&r.name, id, word, c.status, c.text));
                 }
             }
             // The refusal left once the rail's own values were checked: its input falls to its
             // output or below (a parent in dropout, a switch dropping too much).
-            Err(e) => checks.push(Check {
-                id: CheckId::Headroom,
-                title: format!("{} headroom", r.name),
-                status: Status::Fail,
-                text: if vins[0] <= vout {
+            Err(e) => checks.push(check_of(
+                &r.name,
+                CheckId::Headroom,
+                "headroom",
+                Status::Fail,
+                if vins[0] <= vout {
                     format!(
                         "Its input falls to {} at the source's lowest voltage, not above V_out \
                          {}: it cannot regulate",
@@ -1250,7 +1266,7 @@ impl ValidTree {
                         e.message
                     )
                 },
-            }),
+            )),
         }
     }
 
@@ -1277,24 +1293,20 @@ impl ValidTree {
                             (CheckId::Saturation, "saturation")
                         }
                     };
-                    checks.push(Check {
-                        id,
-                        title: format!("{} {word}", r.name),
-                        status: c.status,
-                        text: c.text,
-                    });
+                    checks.push(check_of(&r.name, id, word, c.status, c.text));
                 }
             }
             // A parent that falls below a buck's output (or rises above a boost's).
-            Err(e) => checks.push(Check {
-                id: CheckId::Duty,
-                title: format!("{} duty", r.name),
-                status: Status::Fail,
-                text: format!(
+            Err(e) => checks.push(check_of(
+                &r.name,
+                CheckId::Duty,
+                "duty",
+                Status::Fail,
+                format!(
                     "With the inputs the tree gives it, it cannot regulate: {}",
                     e.message
                 ),
-            }),
+            )),
         }
     }
 
@@ -1349,15 +1361,12 @@ impl ValidTree {
                     high_peak.v_in[i] * high_peak.i_in[i] - high_peak.v_out[i] * high_peak.i_out[i];
                 let tj = self.input.ta_max + theta * p;
                 let limit = r.tj_max.unwrap_or(125.0);
-                checks.push(Check {
-                    id: CheckId::Thermal,
-                    title: format!("{} junction", r.name),
-                    status: if tj <= limit {
-                        Status::Pass
-                    } else {
-                        Status::Fail
-                    },
-                    text: format!(
+                checks.push(check_of(
+                    &r.name,
+                    CheckId::Thermal,
+                    "junction",
+                    passes(tj <= limit),
+                    format!(
                         "{} at peak load, the highest source voltage and {} ambient: T_j {} \
                          against {} ({} {})",
                         show(p, QuantityKind::Power),
@@ -1367,42 +1376,36 @@ impl ValidTree {
                         show(libm::fabs(limit - tj), TemperatureDifference),
                         if tj <= limit { "to spare" } else { "over" }
                     ),
-                });
+                ));
             }
             if let (Some(rated), true) = (r.rated_a, generic) {
-                checks.push(Check {
-                    id: CheckId::Rating,
-                    title: format!("{} current", r.name),
-                    status: if peak_out <= rated {
-                        Status::Pass
-                    } else {
-                        Status::Fail
-                    },
-                    text: format!(
+                checks.push(check_of(
+                    &r.name,
+                    CheckId::Rating,
+                    "current",
+                    passes(peak_out <= rated),
+                    format!(
                         "Peak output {} against its rating {}",
                         show(peak_out, Current),
                         show(rated, Current)
                     ),
-                });
+                ));
             }
             owners.resize(checks.len(), i);
         }
         if let Some(limit) = s.current_limit_a {
             let peak = low.source_a.peak.max(high.source_a.peak);
-            checks.push(Check {
-                id: CheckId::SourceLimit,
-                title: format!("{} current", s.name),
-                status: if peak <= limit {
-                    Status::Pass
-                } else {
-                    Status::Fail
-                },
-                text: format!(
+            checks.push(check_of(
+                &s.name,
+                CheckId::SourceLimit,
+                "current",
+                passes(peak <= limit),
+                format!(
                     "Peak draw {} against the limit {}",
                     show(peak, Current),
                     show(limit, Current)
                 ),
-            });
+            ));
             owners.push(usize::MAX);
         }
         let verdict = overall(&checks);
